@@ -1,0 +1,105 @@
+package viewport_test
+
+import (
+	"errors"
+	"math"
+	"strings"
+	"testing"
+
+	"github.com/viewspec/viewspec/viewport"
+)
+
+func validCamera() viewport.Camera {
+	return viewport.Camera{LatDeg: 48.1, LonDeg: 11.5, HeadingDeg: 30, PitchDeg: 45, Zoom: 16,
+		Device: viewport.NewDevice(390, 844, 45)}
+}
+
+// Every invalid field of SPEC §2 gets a *FieldError naming the field and the
+// value, never a number.
+func TestCameraValidate(t *testing.T) {
+	nan, inf := math.NaN(), math.Inf(1)
+	cases := []struct {
+		name      string
+		mutate    func(*viewport.Camera)
+		wantField string
+		wantValue string
+	}{
+		{"lat NaN", func(c *viewport.Camera) { c.LatDeg = nan }, "lat", "NaN"},
+		{"lat 90.5", func(c *viewport.Camera) { c.LatDeg = 90.5 }, "lat", "90.5"},
+		{"lat -Inf", func(c *viewport.Camera) { c.LatDeg = -inf }, "lat", "-Inf"},
+		{"lon 180.01", func(c *viewport.Camera) { c.LonDeg = 180.01 }, "lon", "180.01"},
+		{"heading 360", func(c *viewport.Camera) { c.HeadingDeg = 360 }, "heading_deg", "360"},
+		{"heading -1", func(c *viewport.Camera) { c.HeadingDeg = -1 }, "heading_deg", "-1"},
+		{"pitch 95", func(c *viewport.Camera) { c.PitchDeg = 95 }, "pitch_deg", "95"},
+		{"pitch 90", func(c *viewport.Camera) { c.PitchDeg = 90 }, "pitch_deg", "90"},
+		{"pitch -0.1", func(c *viewport.Camera) { c.PitchDeg = -0.1 }, "pitch_deg", "-0.1"},
+		{"zoom 30.5", func(c *viewport.Camera) { c.Zoom = 30.5 }, "zoom", "30.5"},
+		{"zoom -1", func(c *viewport.Camera) { c.Zoom = -1 }, "zoom", "-1"},
+		{"zoom +Inf", func(c *viewport.Camera) { c.Zoom = inf }, "zoom", "+Inf"},
+		{"width 0", func(c *viewport.Camera) { c.Device.WidthPx = 0 }, "device.width_px", "0"},
+		{"height -5", func(c *viewport.Camera) { c.Device.HeightPx = -5 }, "device.height_px", "-5"},
+		{"fov 0", func(c *viewport.Camera) { c.Device.FovYDeg = 0 }, "device.fov_y_deg", "0"},
+		{"fov 180", func(c *viewport.Camera) { c.Device.FovYDeg = 180 }, "device.fov_y_deg", "180"},
+		{"tile 300", func(c *viewport.Camera) { c.Device.TilePx = 300 }, "device.tile_px", "300"},
+		{"anchor_x 1.5", func(c *viewport.Camera) { c.Device.AnchorX = 1.5 }, "device.anchor_x", "1.5"},
+		{"inset NaN", func(c *viewport.Camera) { c.Device.InsetLeftPx = nan }, "device.inset_left_px", "NaN"},
+		{"inset negative", func(c *viewport.Camera) { c.Device.InsetTopPx = -1 }, "device.inset_top_px", "-1"},
+		{"insets cover the width", func(c *viewport.Camera) { c.Device.InsetLeftPx, c.Device.InsetRightPx = 200, 190 },
+			"device.inset_left_px+device.inset_right_px", "390"},
+		{"insets cover the height", func(c *viewport.Camera) { c.Device.InsetTopPx, c.Device.InsetBottomPx = 500, 400 },
+			"device.inset_top_px+device.inset_bottom_px", "900"},
+		{"far ratio 1", func(c *viewport.Camera) { c.Device.FarRatio = 1 }, "device.far_ratio", "1"},
+		// At pitch 80° with a 45° field of view the horizon lies at
+		// y = cy − f·cot 80° ≈ 422 − 1019·0.176 ≈ 242 px; an anchor at the top
+		// of the screen is above it.
+		{"anchor above the horizon", func(c *viewport.Camera) { c.PitchDeg = 80; c.Device.AnchorY = 0 }, "device.anchor_y", "0"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			c := validCamera()
+			tc.mutate(&c)
+			err := c.Validate()
+			var fe *viewport.FieldError
+			if !errors.As(err, &fe) {
+				t.Fatalf("Validate() = %v, want a *FieldError", err)
+			}
+			if fe.Field != tc.wantField {
+				t.Errorf("field = %q, want %q (%v)", fe.Field, tc.wantField, err)
+			}
+			if !strings.Contains(err.Error(), tc.wantField+" = "+tc.wantValue+":") {
+				t.Errorf("message %q does not name %s = %s", err, tc.wantField, tc.wantValue)
+			}
+			if _, perr := viewport.Prepare(c); perr == nil {
+				t.Errorf("Prepare accepted an invalid camera")
+			}
+		})
+	}
+	if err := validCamera().Validate(); err != nil {
+		t.Fatalf("valid camera rejected: %v", err)
+	}
+}
+
+// Boundary values that are valid: the closed ends of every interval.
+func TestCameraValidateBoundaries(t *testing.T) {
+	for _, mutate := range []func(*viewport.Camera){
+		func(c *viewport.Camera) { c.LatDeg = 90 },
+		func(c *viewport.Camera) { c.LatDeg = -90 },
+		func(c *viewport.Camera) { c.LonDeg = -180 },
+		func(c *viewport.Camera) { c.LonDeg = 180 },
+		func(c *viewport.Camera) { c.HeadingDeg = 0 },
+		func(c *viewport.Camera) { c.HeadingDeg = math.Nextafter(360, 0) },
+		func(c *viewport.Camera) { c.PitchDeg = 0 },
+		func(c *viewport.Camera) { c.PitchDeg = 89.999 },
+		func(c *viewport.Camera) { c.Zoom = 0 },
+		func(c *viewport.Camera) { c.Zoom = 30 },
+		func(c *viewport.Camera) { c.Device.TilePx = 512 },
+		func(c *viewport.Camera) { c.Device.AnchorX, c.Device.AnchorY = 0, 1 },
+		func(c *viewport.Camera) { c.Device.FarRatio = 1.0000001 },
+	} {
+		c := validCamera()
+		mutate(&c)
+		if err := c.Validate(); err != nil {
+			t.Errorf("Validate(%+v) = %v, want nil", c, err)
+		}
+	}
+}

@@ -1,0 +1,388 @@
+package viewport_test
+
+import (
+	"math"
+	"testing"
+
+	"github.com/paulmach/orb"
+	"pgregory.net/rapid"
+
+	"github.com/viewspec/viewspec/props"
+	"github.com/viewspec/viewspec/viewport"
+)
+
+// mercUlpM is the float64 resolution of Mercator coordinates near the given
+// points, in metres: 32 ulp of the largest |X|+|Y| (T, the point and their
+// difference each round once per coordinate, and placement adds a few more).
+// Far from the origin at zoom 20+ the coordinates themselves, not the
+// formulas, set the floor of every comparison.
+func mercUlpM(ms ...viewport.Mercator) float64 {
+	var big float64
+	for _, m := range ms {
+		big = math.Max(big, math.Abs(m.X)+math.Abs(m.Y))
+	}
+	return 32 * (math.Nextafter(big+1, math.Inf(1)) - (big + 1))
+}
+
+// roundTripTolPx is 1e-6 px plus the Mercator resolution near m carried
+// through the projection to pixel sp: a ground-frame error e (world px)
+// moves the pixel by e·f/depth directly and, through depth = f + v·sin θ,
+// by |pixel − principal point|·e·sin θ/depth (the near rows of a steep view
+// divide by a small depth).
+func roundTripTolPx(v *viewport.View, m viewport.Mercator, sp viewport.ScreenPoint, extraM float64) float64 {
+	e := (mercUlpM(m, v.Target()) + extraM) * v.ScalePxPerM()
+	c := v.Camera()
+	off := math.Abs(sp.X-c.Device.WidthPx/2) + math.Abs(sp.Y-c.Device.HeightPx/2)
+	sinP := math.Sin(c.PitchDeg * math.Pi / 180)
+	return 1e-6 + e*v.FocalPx()/sp.DepthPx + off*e*sinP/sp.DepthPx
+}
+
+func mustPrepare(t interface {
+	Helper()
+	Fatalf(string, ...any)
+}, c viewport.Camera) viewport.View {
+	t.Helper()
+	v, err := viewport.Prepare(c)
+	if err != nil {
+		t.Fatalf("Prepare(%+v): %v", c, err)
+	}
+	return v
+}
+
+// clearPixel draws a pixel inside the clear area and below the far row.
+func clearPixel(t *rapid.T, v *viewport.View) viewport.Pixel {
+	l, tp, r, b := v.ClearArea()
+	top := math.Max(tp, v.FarRowPx())
+	if top >= b {
+		t.Skip("empty footprint")
+	}
+	return viewport.Pixel{
+		X: rapid.Float64Range(l, r).Draw(t, "x"),
+		Y: rapid.Float64Range(top, b).Draw(t, "y"),
+	}
+}
+
+// Unprojecting a pixel below the horizon and projecting the ground point
+// back lands on the same pixel within 1e-6 px.
+func TestUnprojectProjectRoundTrip(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		c := props.Camera().Draw(t, "camera")
+		// Away from the poles' clamp and at zooms where the world is wider
+		// than float64 resolution allows at this precision.
+		if math.Abs(c.LatDeg) > 84 {
+			t.Skip("latitude clamped")
+		}
+		v := mustPrepare(t, c)
+		if v.Wrapped() {
+			t.Skip("view wider than half the world")
+		}
+		px := clearPixel(t, &v)
+		m, ok := v.UnprojectMercator(px)
+		if !ok {
+			t.Fatalf("Unproject(%v) found no ground below the far row", px)
+		}
+		sp := v.ProjectMercator(m)
+		if !sp.HasPixel() {
+			t.Fatalf("Project(Unproject(%v)) has no pixel", px)
+		}
+		if d, tol := math.Hypot(sp.X-px.X, sp.Y-px.Y), roundTripTolPx(&v, m, sp, 0); d > tol {
+			t.Fatalf("Project(Unproject(%v)) = %v, off by %.3g px, tolerance %.3g px", px, sp.Pixel(), d, tol)
+		}
+	})
+}
+
+// The round trip through latitude and longitude keeps the pixel too, at the
+// precision the conversion to degrees and back carries: the inverse
+// Mercator's 2·atan(e^(y/R)) − π/2 loses up to a few ulp of π/2 radians,
+// R·4·ulp(π/2) ≈ 6 nm on the ground, more in Y by sec φ.
+func TestUnprojectProjectRoundTripLatLon(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		c := props.Camera().Draw(t, "camera")
+		if math.Abs(c.LatDeg) > 84 {
+			t.Skip("latitude clamped")
+		}
+		v := mustPrepare(t, c)
+		if v.Wrapped() {
+			t.Skip("view wider than half the world")
+		}
+		px := clearPixel(t, &v)
+		p, ok := v.Unproject(px)
+		if !ok {
+			t.Fatalf("Unproject(%v) found no ground", px)
+		}
+		if math.Abs(p[1]) >= viewport.MaxLatDeg {
+			t.Skip("ground point beyond the Mercator limit")
+		}
+		m := viewport.ToMercator(p)
+		sp := v.Project(p)
+		ulpHalfPi := math.Nextafter(math.Pi/2, 4) - math.Pi/2
+		extraM := 4 * ulpHalfPi * viewport.EarthRadiusM * (1 + 1/math.Cos(p[1]*math.Pi/180))
+		tol := roundTripTolPx(&v, m, sp, extraM)
+		if d := math.Hypot(sp.X-px.X, sp.Y-px.Y); d > tol {
+			t.Fatalf("Project(Unproject(%v)) = %v, off by %.3g px, tolerance %.3g px", px, sp.Pixel(), d, tol)
+		}
+	})
+}
+
+// The user projects to the anchor pixel.
+func TestUserAtAnchor(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		c := props.Camera().Draw(t, "camera")
+		v := mustPrepare(t, c)
+		if v.Wrapped() {
+			t.Skip("view wider than half the world")
+		}
+		sp := v.ProjectMercator(v.UserMercator())
+		want := viewport.Pixel{X: c.Device.AnchorX * c.Device.WidthPx, Y: c.Device.AnchorY * c.Device.HeightPx}
+		tol := roundTripTolPx(&v, v.UserMercator(), sp, 0)
+		if !sp.HasPixel() || math.Hypot(sp.X-want.X, sp.Y-want.Y) > tol {
+			t.Fatalf("Project(user) = %+v, want anchor %v within %.3g px", sp, want, tol)
+		}
+	})
+}
+
+// The footprint's vertices project to the clear area's corners, with the
+// far edge at the top of the clear area or the far cut.
+func TestFootprintVerticesAtCorners(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		c := props.Camera().Draw(t, "camera")
+		v := mustPrepare(t, c)
+		fp := v.Footprint()
+		if fp.Wrapped {
+			t.Skip("footprint wider than half the world")
+		}
+		l, tp, r, b := v.ClearArea()
+		far := math.Max(tp, v.FarRowPx())
+		if fp.Empty {
+			if far < b {
+				t.Fatalf("footprint empty with far row %v above near row %v", far, b)
+			}
+			return
+		}
+		want := [4]viewport.Pixel{{X: l, Y: b}, {X: r, Y: b}, {X: r, Y: far}, {X: l, Y: far}}
+		for i, m := range fp.Mercator {
+			sp := v.ProjectMercator(m)
+			tol := roundTripTolPx(&v, m, sp, 0)
+			if !sp.HasPixel() || math.Hypot(sp.X-want[i].X, sp.Y-want[i].Y) > tol {
+				t.Fatalf("vertex %d projects to %+v, want %v within %.3g px", i, sp, want[i], tol)
+			}
+		}
+	})
+}
+
+// groundLenM is the ground length in metres of the Mercator segment a–b at
+// the user's latitude.
+func groundLenM(a, b viewport.Mercator, latDeg float64) float64 {
+	return math.Hypot(a.X-b.X, a.Y-b.Y) * viewport.GroundScale(latDeg)
+}
+
+// At pitch 0 the footprint is a rectangle whose sides are the clear area's
+// size in ground metres at the user's latitude.
+func TestPitchZeroRectangle(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		c := props.Camera().Draw(t, "camera")
+		c.PitchDeg = 0
+		v := mustPrepare(t, c)
+		fp := v.Footprint()
+		l, tp, r, b := v.ClearArea()
+		mpp := viewport.GroundMPerPx(c.LatDeg, c.Zoom, c.Device.TilePx)
+		wantW, wantH := (r-l)*mpp, (b-tp)*mpp
+		m := fp.Mercator
+		sides := [4]float64{wantW, wantH, wantW, wantH}
+		for i := range 4 {
+			got := groundLenM(m[i], m[(i+1)%4], c.LatDeg)
+			if math.Abs(got-sides[i]) > 1e-9*sides[i]+mercUlpM(m[:]...) {
+				t.Fatalf("side %d = %.12g m, want %.12g m", i, got, sides[i])
+			}
+		}
+		// Right angles: the diagonals are equal.
+		d1 := groundLenM(m[0], m[2], c.LatDeg)
+		d2 := groundLenM(m[1], m[3], c.LatDeg)
+		if math.Abs(d1-d2) > 1e-9*d1+mercUlpM(m[:]...) {
+			t.Fatalf("diagonals %.12g and %.12g m differ: not a rectangle", d1, d2)
+		}
+		if want := wantW * wantH; math.Abs(fp.AreaM2-want) > 1e-9*want {
+			t.Fatalf("AreaM2 = %.12g, want %.12g", fp.AreaM2, want)
+		}
+	})
+}
+
+// rotate returns m turned clockwise by deg about centre, in the Mercator
+// plane (a heading grows clockwise, so the map content turns with it).
+func rotate(m, centre viewport.Mercator, deg float64) viewport.Mercator {
+	s, c := math.Sincos(deg * math.Pi / 180)
+	dx, dy := m.X-centre.X, m.Y-centre.Y
+	return viewport.Mercator{X: centre.X + dx*c + dy*s, Y: centre.Y - dx*s + dy*c}
+}
+
+// Turning the heading by δ turns the footprint by δ about the user.
+func TestHeadingTurnsFootprint(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		c := props.Camera().Draw(t, "camera")
+		c.LonDeg = rapid.Float64Range(-170, 170).Draw(t, "lon_inland")
+		if math.Abs(c.LatDeg) > 84 {
+			t.Skip("latitude clamped")
+		}
+		delta := rapid.Float64Range(-360, 360).Draw(t, "delta_deg")
+		c2 := c
+		c2.HeadingDeg = math.Mod(c.HeadingDeg+delta+720, 360)
+		v1, v2 := mustPrepare(t, c), mustPrepare(t, c2)
+		f1, f2 := v1.Footprint(), v2.Footprint()
+		if f1.Empty != f2.Empty {
+			t.Fatalf("emptiness changed with heading")
+		}
+		if f1.Empty || f1.Wrapped {
+			return
+		}
+		scale := v1.ScalePxPerM()
+		for i := range 4 {
+			want := rotate(f1.Mercator[i], v1.UserMercator(), c2.HeadingDeg-c.HeadingDeg)
+			got := f2.Mercator[i]
+			if d := math.Hypot(got.X-want.X, got.Y-want.Y) * scale; d > 1e-6 {
+				t.Fatalf("vertex %d off by %.3g px after turning by %v°", i, d, delta)
+			}
+		}
+	})
+}
+
+// One zoom level more halves every side of the footprint at pitch 0.
+func TestZoomHalvesSides(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		c := props.Camera().Draw(t, "camera")
+		c.PitchDeg = 0
+		c.Zoom = rapid.Float64Range(0, 29).Draw(t, "zoom")
+		c2 := c
+		c2.Zoom++
+		v1, v2 := mustPrepare(t, c), mustPrepare(t, c2)
+		f1, f2 := v1.Footprint(), v2.Footprint()
+		for i := range 4 {
+			a := math.Hypot(f1.Mercator[i].X-f1.Mercator[(i+1)%4].X, f1.Mercator[i].Y-f1.Mercator[(i+1)%4].Y)
+			b := math.Hypot(f2.Mercator[i].X-f2.Mercator[(i+1)%4].X, f2.Mercator[i].Y-f2.Mercator[(i+1)%4].Y)
+			if math.Abs(b-a/2) > 1e-9*a+mercUlpM(f1.Mercator[:]...) {
+				t.Fatalf("side %d: %.12g m at zoom %v, %.12g m at zoom %v, want half", i, a, c.Zoom, b, c2.Zoom)
+			}
+		}
+	})
+}
+
+// The far edge is longer than the near edge when tilted, equal at pitch 0.
+func TestFarEdgeWider(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		c := props.Camera().Draw(t, "camera")
+		v := mustPrepare(t, c)
+		fp := v.Footprint()
+		if fp.Empty {
+			return
+		}
+		m := fp.Mercator
+		near := math.Hypot(m[1].X-m[0].X, m[1].Y-m[0].Y)
+		far := math.Hypot(m[2].X-m[3].X, m[2].Y-m[3].Y)
+		tol := mercUlpM(m[:]...)
+		if c.PitchDeg == 0 {
+			if math.Abs(far-near) > 1e-12*near+tol {
+				t.Fatalf("pitch 0: far edge %.12g, near edge %.12g, want equal", far, near)
+			}
+			return
+		}
+		// The widening is depth_far/depth_near − 1, about sin θ·(v_far −
+		// v_near)/f; below a milli-degree it can fall under the float64
+		// resolution of the edge, so there the edge need only not shrink.
+		if far < near-tol || (c.PitchDeg >= 1e-3 && !(far > near)) {
+			t.Fatalf("pitch %v: far edge %.12g not longer than near edge %.12g", c.PitchDeg, far, near)
+		}
+	})
+}
+
+// inTrapezoid reports whether m lies in the convex ring q (counter-
+// clockwise), and how far (in Mercator metres) it is from the boundary.
+func inTrapezoid(q [4]viewport.Mercator, m viewport.Mercator) (bool, float64) {
+	in := true
+	dist := math.Inf(1)
+	for i := range 4 {
+		a, b := q[i], q[(i+1)%4]
+		ex, ey := b.X-a.X, b.Y-a.Y
+		cross := ex*(m.Y-a.Y) - ey*(m.X-a.X)
+		if cross < 0 {
+			in = false
+		}
+		dist = math.Min(dist, math.Abs(cross)/math.Hypot(ex, ey))
+	}
+	return in, dist
+}
+
+// A point is inside the footprint exactly when it is in view, away from the
+// decision margin.
+func TestInViewIffInFootprint(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		c := props.Camera().Draw(t, "camera")
+		c.LonDeg = rapid.Float64Range(-170, 170).Draw(t, "lon_inland")
+		if math.Abs(c.LatDeg) > 84 {
+			t.Skip("latitude clamped")
+		}
+		v := mustPrepare(t, c)
+		fp := v.Footprint()
+		if fp.Empty || fp.Wrapped {
+			return
+		}
+		// A point near the footprint: a vertex blend pushed outward a little.
+		var m viewport.Mercator
+		var wsum float64
+		for i := range 4 {
+			w := rapid.Float64Range(0, 1).Draw(t, "w")
+			m.X += w * fp.Mercator[i].X
+			m.Y += w * fp.Mercator[i].Y
+			wsum += w
+		}
+		if wsum == 0 {
+			t.Skip("degenerate blend")
+		}
+		m.X /= wsum
+		m.Y /= wsum
+		push := rapid.Float64Range(-0.5, 0.5).Draw(t, "push")
+		u := v.UserMercator()
+		m.X += push * (m.X - u.X)
+		m.Y += push * (m.Y - u.Y)
+		// The copy of the point nearest the target, as Project sees it.
+		if dx := m.X - v.Target().X; math.Abs(dx) >= math.Pi*viewport.EarthRadiusM {
+			m.X -= math.Copysign(2*math.Pi*viewport.EarthRadiusM, dx)
+		}
+		in, distM := inTrapezoid(fp.Mercator, m)
+		sp := v.ProjectMercator(m)
+		if distM*v.ScalePxPerM() < 1e-6 || (sp.HasPixel() && math.Abs(sp.MarginPx) < 1e-6) {
+			t.Skip("on the boundary")
+		}
+		if sp.InView() != in {
+			t.Fatalf("in footprint = %v, InView = %v (margin %.3g px)", in, sp.InView(), sp.MarginPx)
+		}
+		if v.InView(m) != sp.InView() {
+			t.Fatalf("InView = %v disagrees with Project's %v", v.InView(m), sp.InView())
+		}
+		if sp.HasPixel() && (sp.MarginPx >= 0) != sp.InView() {
+			t.Fatalf("margin %.6g px has the wrong sign for InView = %v", sp.MarginPx, sp.InView())
+		}
+		d, ok := v.GroundDistM(&fp, m)
+		if !ok || (in && d != 0) || (!in && !(d > 0)) {
+			t.Fatalf("GroundDistM = %v, %v for a point with in = %v", d, ok, in)
+		}
+	})
+}
+
+// A point off every edge has a ground distance equal to its Mercator
+// distance to the nearest edge, scaled at the user's latitude.
+func TestGroundDistMStraightOut(t *testing.T) {
+	c := viewport.Camera{LatDeg: 0, LonDeg: 0, Zoom: 16, Device: viewport.NewDevice(400, 800, 60)}
+	v := mustPrepare(t, c)
+	fp := v.Footprint()
+	// At the equator, pitch 0, heading north: the rectangle spans
+	// 400×800 px of 2.388657 m/px (156543.03392804097 / 2^16, the slippy-map
+	// table's zoom-16 row computed exactly from 2πR/256). A point 100 m
+	// north of the top edge is 100 m away.
+	top := fp.Mercator[2].Y
+	d, ok := v.GroundDistM(&fp, viewport.Mercator{X: 0, Y: top + 100})
+	if !ok || math.Abs(d-100) > 1e-6 {
+		t.Fatalf("GroundDistM(100 m north of the top edge) = %.9g, want 100 within 1 µm", d)
+	}
+	if d, _ := v.GroundDistM(&fp, viewport.ToMercator(orb.Point{0, 0})); d != 0 {
+		t.Fatalf("GroundDistM(user) = %v, want 0", d)
+	}
+}
