@@ -123,9 +123,9 @@ func (c *Camera) validateFields() error {
 		}
 	}
 	if w := d.WidthPx - d.InsetLeftPx - d.InsetRightPx; !(w > 0) {
-		return &FieldError{Field: "device.inset_left_px+device.inset_right_px", Value: d.InsetLeftPx + d.InsetRightPx,
+		return &FieldError{Field: "device.inset_left_px+inset_right_px", Value: d.InsetLeftPx + d.InsetRightPx,
 			Reason: "insets leave no clear area (they must sum to less than width_px " + formatValue(d.WidthPx) + ")"}
 	}
-	return &FieldError{Field: "device.inset_top_px+device.inset_bottom_px", Value: d.InsetTopPx + d.InsetBottomPx,
+	return &FieldError{Field: "device.inset_top_px+inset_bottom_px", Value: d.InsetTopPx + d.InsetBottomPx,
 		Reason: "insets leave no clear area (they must sum to less than height_px " + formatValue(d.HeightPx) + ")"}
 }

@@ -45,9 +45,9 @@ func TestCameraValidate(t *testing.T) {
 		{"inset NaN", func(c *viewport.Camera) { c.Device.InsetLeftPx = nan }, "device.inset_left_px", "NaN"},
 		{"inset negative", func(c *viewport.Camera) { c.Device.InsetTopPx = -1 }, "device.inset_top_px", "-1"},
 		{"insets cover the width", func(c *viewport.Camera) { c.Device.InsetLeftPx, c.Device.InsetRightPx = 200, 190 },
-			"device.inset_left_px+device.inset_right_px", "390"},
+			"device.inset_left_px+inset_right_px", "390"},
 		{"insets cover the height", func(c *viewport.Camera) { c.Device.InsetTopPx, c.Device.InsetBottomPx = 500, 400 },
-			"device.inset_top_px+device.inset_bottom_px", "900"},
+			"device.inset_top_px+inset_bottom_px", "900"},
 		{"far ratio 1", func(c *viewport.Camera) { c.Device.FarRatio = 1 }, "device.far_ratio", "1"},
 		// At pitch 80° with a 45° field of view the horizon lies at
 		// y = cy − f·cot 80° ≈ 422 − 1019·0.176 ≈ 242 px; an anchor at the top

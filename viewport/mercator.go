@@ -37,7 +37,8 @@ func ToMercator(p orb.Point) Mercator {
 	// within 1 mm (tan(π/4) rounds below 1, so the equator lands 0.7 nm
 	// south of 0).
 	return Mercator{
-		X: EarthRadiusM * p[0] * (math.Pi / 180),
+		X: p[0] * (worldWidthM / 360), // R·λ, as a fraction of the world
+
 		Y: EarthRadiusM * math.Log(math.Tan(math.Pi/4+lat*(math.Pi/360))),
 	}
 }
@@ -45,7 +46,7 @@ func ToMercator(p orb.Point) Mercator {
 // LatLon returns the [lon, lat] degrees of m. Longitude is wrapped into
 // [−180, 180); latitude follows the inverse formula for any Y.
 func (m Mercator) LatLon() orb.Point {
-	lon := m.X / EarthRadiusM * (180 / math.Pi)
+	lon := m.X / worldWidthM * 360 // λ = X/R, as a fraction of the world
 	lon = wrapLonDeg(lon)
 	lat := (2*math.Atan(math.Exp(m.Y/EarthRadiusM)) - math.Pi/2) * (180 / math.Pi)
 	return orb.Point{lon, lat}

@@ -1,0 +1,58 @@
+// Command viewspec is the executable specification of what a heading-up,
+// tilted navigation map shows: it answers the wire as the reference, prints
+// a camera's footprint and projections, and (in later commands) checks other
+// implementations against the reference.
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"os"
+
+	"github.com/spf13/cobra"
+)
+
+func main() { os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr)) }
+
+// exitError carries an exit code other than 1 out of a command.
+type exitError struct {
+	code int
+	err  error
+}
+
+func (e *exitError) Error() string { return e.err.Error() }
+
+// run executes the command line args and returns the exit code: 0 on
+// success, 1 on a failed check or a runtime error, 2 on unusable input.
+func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	root := newRoot()
+	root.SetArgs(args)
+	root.SetIn(stdin)
+	root.SetOut(stdout)
+	root.SetErr(stderr)
+	if err := root.Execute(); err != nil {
+		fmt.Fprintln(stderr, "viewspec:", err)
+		var ee *exitError
+		if errors.As(err, &ee) {
+			return ee.code
+		}
+		return 2
+	}
+	return 0
+}
+
+func newRoot() *cobra.Command {
+	root := &cobra.Command{
+		Use:   "viewspec",
+		Short: "The geometry a navigation map's client and server must agree on, executable",
+		Long: `viewspec is the executable specification of what a heading-up, tilted
+navigation map shows: the camera's footprint on the ground, where each marker
+lands on the screen, and whether it is in view. It answers the wire as the
+reference implementation and prints cameras in readable, JSON or GeoJSON form.`,
+		SilenceUsage:  true,
+		SilenceErrors: true,
+	}
+	root.AddCommand(newEvalCmd(), newFootprintCmd(), newProjectCmd())
+	return root
+}
