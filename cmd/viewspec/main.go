@@ -53,6 +53,6 @@ reference implementation and prints cameras in readable, JSON or GeoJSON form.`,
 		SilenceUsage:  true,
 		SilenceErrors: true,
 	}
-	root.AddCommand(newEvalCmd(), newFootprintCmd(), newProjectCmd())
+	root.AddCommand(newEvalCmd(), newFootprintCmd(), newProjectCmd(), newMetricsCmd())
 	return root
 }
