@@ -1,0 +1,129 @@
+package routes
+
+import (
+	"math"
+
+	"github.com/paulmach/orb"
+)
+
+// Along-route positions are metres from the route's start along its segments. Every function here
+// clamps an along-route position to [0, LengthM()] and counts NaN as 0. At an interior vertex the
+// current segment is the one that starts there; at the route's end it is the last one.
+
+// SegmentAt returns the index of the segment holding along-route position alongM: the i with
+// start_i ≤ alongM < start_{i+1}, or the last segment at the route's end. O(log n), no allocation.
+func (r *Route) SegmentAt(alongM float64) int {
+	return segmentIn(r.startM, r.clampAlong(alongM))
+}
+
+// segmentIn returns the largest i < len(starts)−1 with starts[i] ≤ v (v ≥ starts[0]).
+func segmentIn(starts []float64, v float64) int {
+	lo, hi := 0, len(starts)-2 // answer in [lo, hi]
+	for lo < hi {
+		mid := (lo + hi + 1) / 2
+		if starts[mid] <= v {
+			lo = mid
+		} else {
+			hi = mid - 1
+		}
+	}
+	return lo
+}
+
+// PointAt returns the point ([lon, lat] degrees) at along-route position alongM. On segment i it
+// lies at the fraction (alongM − start_i)/length_i of the segment's great-circle arc by angle
+// (spherical linear interpolation), the same parametrisation Snap and Metrics invert. Vertices are
+// returned exactly as given.
+func (r *Route) PointAt(alongM float64) orb.Point {
+	along := r.clampAlong(alongM)
+	i := segmentIn(r.startM, along)
+	if along == r.startM[i] {
+		return r.pts[i]
+	}
+	if along >= r.startM[i+1] {
+		return r.pts[i+1]
+	}
+	sg := &r.segs[i]
+	s := (along - r.startM[i]) / sg.lengthM * sg.theta
+	sn, cs := math.Sincos(s)
+	return latLonOf(sg.a.Mul(cs).Add(sg.t.Mul(sn)))
+}
+
+// HeadingDegAt returns the Mercator-plane heading, degrees clockwise from north in [0, 360), of the
+// segment holding alongM (see SegmentAt).
+func (r *Route) HeadingDegAt(alongM float64) float64 {
+	return r.segs[r.SegmentAt(alongM)].headingDeg
+}
+
+// SpeedMpsAt returns the speed in m/s of the segment holding alongM (see SegmentAt).
+func (r *Route) SpeedMpsAt(alongM float64) float64 {
+	return r.segs[r.SegmentAt(alongM)].speedMps
+}
+
+// timeAt returns the travel time in seconds from the route's start to along-route position alongM.
+func (r *Route) timeAt(alongM float64) float64 {
+	along := r.clampAlong(alongM)
+	return r.timeAtS(segmentIn(r.startM, along), along)
+}
+
+// TimeBetweenS returns the travel time in seconds from along-route position fromM to toM at the
+// segments' speeds: negative when toM is behind fromM.
+func (r *Route) TimeBetweenS(fromM, toM float64) float64 {
+	return r.timeAt(toM) - r.timeAt(fromM)
+}
+
+// AlongAfterS returns the along-route position reached tS seconds after leaving startAlongM,
+// moving at each segment's speed: segment ends are crossed exactly (the time left over on one
+// segment is spent on the next at its speed), and the motion stops at the route's end (and, for
+// negative tS, which moves backwards in time, at its start). The position depends only on the
+// elapsed time, so calling it with k·tick for tick k accumulates no error. O(log n), no allocation.
+func (r *Route) AlongAfterS(startAlongM, tS float64) float64 {
+	t := r.timeAt(startAlongM) + tS
+	if !(t > 0) { // also NaN
+		return 0
+	}
+	if t >= r.DurationS() {
+		return r.LengthM()
+	}
+	j := segmentIn(r.startS, t)
+	return math.Min(r.startM[j+1], r.startM[j]+(t-r.startS[j])*r.segs[j].speedMps)
+}
+
+// Turns returns the along-route positions, ascending, of the interior vertices where the Mercator
+// heading changes by at least minAngleDeg degrees, measured the short way round (so a change from
+// 350° to 10° is 20°, and a U-turn is 180°). A threshold ≤ 0 marks every interior vertex; NaN marks
+// none.
+func (r *Route) Turns(minAngleDeg float64) []float64 {
+	var out []float64
+	for k := 1; k < len(r.segs); k++ {
+		if HeadingChangeDeg(r.segs[k-1].headingDeg, r.segs[k].headingDeg) >= minAngleDeg {
+			out = append(out, r.startM[k])
+		}
+	}
+	return out
+}
+
+// HeadingChangeDeg returns the size, in degrees in [0, 180], of the turn from heading fromDeg to
+// heading toDeg the short way round.
+func HeadingChangeDeg(fromDeg, toDeg float64) float64 {
+	return math.Abs(math.Remainder(toDeg-fromDeg, 360))
+}
+
+// NextTurnDistM returns the along-route distance in metres from alongM to the first turn strictly
+// ahead of it in turns (ascending along-route positions, as from Turns), and false when there is
+// none. O(log n), no allocation.
+func NextTurnDistM(turns []float64, alongM float64) (distM float64, ok bool) {
+	lo, hi := 0, len(turns) // first index with turns[i] > alongM
+	for lo < hi {
+		mid := (lo + hi) / 2
+		if turns[mid] > alongM {
+			hi = mid
+		} else {
+			lo = mid + 1
+		}
+	}
+	if lo == len(turns) {
+		return 0, false
+	}
+	return turns[lo] - alongM, true
+}

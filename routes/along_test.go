@@ -1,0 +1,200 @@
+package routes
+
+import (
+	"math"
+	"testing"
+
+	"github.com/paulmach/orb"
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+// equatorRoute lays segments of the given lengths eastwards along the equator from lon 0. Along the
+// equator the geodesic is the equator itself, of radius a, so a segment of Δλ radians is a·Δλ
+// metres (exactly, up to rounding).
+func equatorRoute(t *testing.T, lengthsM, speeds []float64) *Route {
+	t.Helper()
+	pts := []orb.Point{{0, 0}}
+	lon := 0.0
+	for _, l := range lengthsM {
+		lon += l / wgs84A * radDeg
+		pts = append(pts, orb.Point{lon, 0})
+	}
+	r, err := New(pts, speeds)
+	require.NoError(t, err)
+	return r
+}
+
+func TestSegmentAtVertexAndEndRules(t *testing.T) {
+	r := equatorRoute(t, []float64{100, 200, 50}, []float64{10, 20, 5})
+	s1, s2 := r.Segment(1).StartM, r.Segment(2).StartM
+	cases := []struct {
+		along float64
+		want  int
+	}{
+		{-5, 0}, {0, 0}, {50, 0},
+		{math.Nextafter(s1, 0), 0}, {s1, 1}, // at an interior vertex: the segment that starts there
+		{s2, 2}, {r.LengthM(), 2}, {r.LengthM() + 1, 2}, // at and past the end: the last one
+		{math.NaN(), 0}, {math.Inf(1), 2}, {math.Inf(-1), 0},
+	}
+	for _, c := range cases {
+		assert.Equal(t, c.want, r.SegmentAt(c.along), "SegmentAt(%v)", c.along)
+	}
+	assert.Equal(t, 20.0, r.SpeedMpsAt(s1))
+	assert.Equal(t, 5.0, r.SpeedMpsAt(r.LengthM()))
+	assert.Equal(t, 90.0, r.HeadingDegAt(s1))
+}
+
+// TestPointAtIsSlerpByAngle: the point at along-route position p lies at the fraction
+// (p − start)/length of the arc by angle (SPEC §4), not by geodesic distance. On a meridian the
+// two differ: the arc's angle is linear in latitude, the geodesic length is not.
+func TestPointAtIsSlerpByAngle(t *testing.T) {
+	r, err := New([]orb.Point{{5, 0}, {5, 60}}, []float64{10})
+	require.NoError(t, err)
+	L := r.LengthM()
+	for _, f := range []float64{0, 0.1, 0.25, 0.5, 0.9, 1} {
+		got := r.PointAt(f * L)
+		assert.InDelta(t, 60*f, got[1], 1e-12, "PointAt(%v·L) latitude", f)
+		assert.InDelta(t, 5, got[0], 1e-12, "PointAt(%v·L) longitude", f)
+	}
+	// By geodesic distance, half the length would be 0.14° further south (the meridian's radius
+	// of curvature grows with latitude): this is what the by-angle rule is not.
+	half := r.PointAt(L / 2)
+	assert.Greater(t, math.Abs(GeodesicDistM(orb.Point{5, 0}, half)-L/2), 1000.0)
+
+	// Vertices come back exactly as given; positions are clamped.
+	pts := []orb.Point{{179.9, -10}, {-179.95, -10.05}, {-179.8, -10.2}}
+	r, err = New(pts, []float64{10})
+	require.NoError(t, err)
+	assert.Equal(t, pts[1], r.PointAt(r.Segment(1).StartM))
+	assert.Equal(t, pts[2], r.PointAt(r.LengthM()+100))
+	assert.Equal(t, pts[0], r.PointAt(math.NaN()))
+	// Across the antimeridian the interpolated longitude stays in [-180, 180].
+	mid := r.PointAt(r.Segment(0).LengthM * 0.3)
+	assert.True(t, mid[0] > 179.9 || mid[0] < -179.95, "PointAt across the antimeridian = %v", mid)
+}
+
+func TestTimeBetween(t *testing.T) {
+	r := equatorRoute(t, []float64{100, 200, 50}, []float64{10, 20, 5})
+	assert.InDelta(t, 10+10+10, r.DurationS(), 1e-9)
+	assert.InDelta(t, 5+5, r.TimeBetweenS(50, 200), 1e-9) // 50 m at 10 m/s, then 100 m at 20 m/s
+	assert.InDelta(t, -(5 + 5), r.TimeBetweenS(200, 50), 1e-9)
+	assert.InDelta(t, 30, r.TimeBetweenS(-10, 1e9), 1e-9) // clamped to the route
+}
+
+// TestAlongAfterCrossesSegmentsExactly: motion at each segment's own speed, the time left over at a
+// segment end spent on the next (SPEC §5), stopping at the route's end.
+func TestAlongAfterCrossesSegmentsExactly(t *testing.T) {
+	// 100 m at 10 m/s (10 s), 200 m at 20 m/s (10 s), 50 m at 5 m/s (10 s).
+	r := equatorRoute(t, []float64{100, 200, 50}, []float64{10, 20, 5})
+	cases := []struct {
+		start, t, want float64
+	}{
+		{0, 0, 0},
+		{0, 5, 50},
+		{0, 10, 100}, // exactly at the first vertex
+		{0, 12, 140}, // 10 s to the vertex, then 2 s at 20 m/s
+		{0, 20, 300},
+		{0, 25, 325},
+		{0, 30, 350},    // the end
+		{0, 1000, 350},  // stopped there
+		{90, 1.5, 110},  // 1 s to the vertex, 0.5 s at 20 m/s
+		{290, 3, 312.5}, // 0.5 s to the vertex at 300, then 2.5 s at 5 m/s
+		{120, -1.5, 95}, // back 1 s at 20 m/s to the vertex, 0.5 s at 10 m/s
+		{50, -100, 0},   // backwards in time stops at the start
+		{350, 5, 350},
+	}
+	for _, c := range cases {
+		got := r.AlongAfterS(c.start, c.t)
+		assert.InDelta(t, c.want, got, 1e-9, "AlongAfterS(%v, %v)", c.start, c.t)
+	}
+	// A tick loop accumulates no error: position k·tick is the same as one jump of k·tick.
+	pos := 0.0
+	for k := 1; k <= 120; k++ {
+		pos = r.AlongAfterS(0, float64(k)*0.25)
+		if k*25 <= 1000 { // first segment: 10 m/s
+			assert.InDelta(t, float64(k)*2.5, pos, 1e-9)
+		}
+	}
+	assert.InDelta(t, 350, pos, 1e-9)
+	assert.Equal(t, 0.0, r.AlongAfterS(0, math.NaN()))
+}
+
+// TestTurnsWrapAtNorth: turn sizes are measured the short way round, across 0/360.
+func TestTurnsWrapAtNorth(t *testing.T) {
+	p0 := orb.Point{10, 50}
+	p1 := offsetPoint(p0, 350, 500) // heading ~350
+	p2 := offsetPoint(p1, 10, 500)  // ~10: a 20° turn across north
+	p3 := offsetPoint(p2, 100, 500) // ~100: a 90° turn
+	p4 := offsetPoint(p3, 280, 300) // ~280: a U-turn (180°)
+	p5 := offsetPoint(p4, 275, 300) // ~5° more
+	r, err := New([]orb.Point{p0, p1, p2, p3, p4, p5}, []float64{10})
+	require.NoError(t, err)
+	h := func(i int) float64 { return r.Segment(i).HeadingDeg }
+	assert.InDelta(t, 20, HeadingChangeDeg(h(0), h(1)), 0.5)
+	assert.InDelta(t, 90, HeadingChangeDeg(h(1), h(2)), 0.5)
+	assert.InDelta(t, 180, HeadingChangeDeg(h(2), h(3)), 0.5)
+
+	v := func(i int) float64 { return r.Segment(i).StartM }
+	assert.Equal(t, []float64{v(1), v(2), v(3), v(4)}, r.Turns(0))
+	assert.Equal(t, []float64{v(1), v(2), v(3)}, r.Turns(15))
+	assert.Equal(t, []float64{v(2), v(3)}, r.Turns(30))
+	assert.Equal(t, []float64{v(3)}, r.Turns(170))
+	assert.Empty(t, r.Turns(181))
+	assert.Empty(t, r.Turns(math.NaN()))
+
+	cases := []struct {
+		name   string
+		heads  [2]float64
+		change float64
+	}{
+		{"across north", [2]float64{350, 10}, 20},
+		{"across north backwards", [2]float64{10, 350}, 20},
+		{"none", [2]float64{0, 0}, 0},
+		{"0 and 360 are one heading", [2]float64{0, 359.9999999}, 1e-7},
+		{"U-turn", [2]float64{90, 270}, 180},
+		{"just under a U-turn", [2]float64{0, 180.5}, 179.5},
+	}
+	for _, c := range cases {
+		assert.InDelta(t, c.change, HeadingChangeDeg(c.heads[0], c.heads[1]), 1e-9, c.name)
+	}
+}
+
+func TestNextTurnIsStrictlyAhead(t *testing.T) {
+	turns := []float64{100, 250, 400}
+	cases := []struct {
+		along float64
+		dist  float64
+		ok    bool
+	}{
+		{0, 100, true},
+		{100, 150, true}, // at a turn: the next one
+		{99.5, 0.5, true},
+		{399, 1, true},
+		{400, 0, false},
+		{1e6, 0, false},
+		{math.NaN(), 0, false},
+	}
+	for _, c := range cases {
+		d, ok := NextTurnDistM(turns, c.along)
+		assert.Equal(t, c.ok, ok, "NextTurnDistM(%v)", c.along)
+		assert.InDelta(t, c.dist, d, 1e-12, "NextTurnDistM(%v)", c.along)
+	}
+	_, ok := NextTurnDistM(nil, 0)
+	assert.False(t, ok)
+}
+
+func TestAlongHelpersDoNotAllocate(t *testing.T) {
+	r := equatorRoute(t, []float64{100, 200, 50}, []float64{10, 20, 5})
+	turns := []float64{100, 300}
+	n := testing.AllocsPerRun(100, func() {
+		_ = r.AlongAfterS(10, 7)
+		_ = r.PointAt(120)
+		_ = r.SegmentAt(120)
+		_ = r.HeadingDegAt(120)
+		_ = r.TimeBetweenS(0, 120)
+		_, _ = NextTurnDistM(turns, 120)
+		_ = r.PlaceAt(120)
+	})
+	assert.Zero(t, n)
+}

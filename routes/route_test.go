@@ -1,0 +1,213 @@
+package routes
+
+import (
+	"bufio"
+	"bytes"
+	"errors"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"os"
+	"os/exec"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/paulmach/orb"
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+func TestNewRefusesInvalidInput(t *testing.T) {
+	nan, inf := math.NaN(), math.Inf(1)
+	ok := []orb.Point{{0, 0}, {0.01, 0}, {0.02, 0}}
+	cases := []struct {
+		name   string
+		points []orb.Point
+		speeds []float64
+		field  string
+		value  string
+		msg    string // the whole message
+	}{
+		{"no points", nil, []float64{10}, "points", "0 given",
+			"points = 0 given: a route needs at least 2 distinct vertices"},
+		{"one point", []orb.Point{{1, 2}}, []float64{10}, "points", "1 given",
+			"points = 1 given: a route needs at least 2 distinct vertices"},
+		{"all one position", []orb.Point{{1, 2}, {1, 2}, {1, 2}}, []float64{10}, "points", "3 given, 1 distinct",
+			"points = 3 given, 1 distinct: a route needs at least 2 distinct vertices"},
+		{"one position as -180 and 180", []orb.Point{{-180, 2}, {180, 2}}, []float64{10}, "points", "2 given, 1 distinct",
+			"points = 2 given, 1 distinct: a route needs at least 2 distinct vertices"},
+		{"latitude above 90", []orb.Point{{0, 0}, {0, 1}, {0, 2}, {0, 91}}, []float64{10}, "points[3].lat", "91",
+			"points[3].lat = 91: out of range [-90, 90]"},
+		{"latitude below -90", []orb.Point{{0, -90.5}, {0, 1}}, []float64{10}, "points[0].lat", "-90.5",
+			"points[0].lat = -90.5: out of range [-90, 90]"},
+		{"longitude beyond -180", []orb.Point{{0, 0}, {-180.25, 1}}, []float64{10}, "points[1].lon", "-180.25",
+			"points[1].lon = -180.25: out of range [-180, 180]"},
+		{"latitude NaN", []orb.Point{{0, 0}, {0, nan}}, []float64{10}, "points[1].lat", "NaN",
+			"points[1].lat = NaN: not a finite number"},
+		{"longitude +Inf", []orb.Point{{inf, 0}, {0, 1}}, []float64{10}, "points[0].lon", "+Inf",
+			"points[0].lon = +Inf: not a finite number"},
+		{"too many speeds", ok, []float64{1, 2, 3}, "speed_mps", "3 entries",
+			"speed_mps = 3 entries: want 1 or 2 (one per segment as given)"},
+		{"no speeds", ok, nil, "speed_mps", "0 entries",
+			"speed_mps = 0 entries: want 1 or 2 (one per segment as given)"},
+		{"speed zero", ok, []float64{0}, "speed_mps", "0", "speed_mps = 0: must be > 0 m/s"},
+		{"speed negative on segment 1", ok, []float64{10, -1}, "speed_mps[1]", "-1",
+			"speed_mps[1] = -1: must be > 0 m/s"},
+		{"speed NaN", ok, []float64{nan}, "speed_mps", "NaN", "speed_mps = NaN: not a finite number"},
+		{"speed +Inf on segment 0", ok, []float64{inf, 10}, "speed_mps[0]", "+Inf",
+			"speed_mps[0] = +Inf: not a finite number"},
+		{"consecutive antipodal vertices", []orb.Point{{0, 0}, {180, 0}}, []float64{10}, "points[1]", "[180, 0]",
+			"points[1] = [180, 0]: less than 6 m from antipodal to points[0] [0, 0]: the great-circle arc between consecutive vertices is not determined"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			r, err := New(c.points, c.speeds)
+			require.Error(t, err)
+			assert.Nil(t, r)
+			var ie *InputError
+			require.True(t, errors.As(err, &ie), "error %v is not an *InputError", err)
+			assert.Equal(t, c.field, ie.Field)
+			assert.Equal(t, c.value, ie.Value)
+			assert.Equal(t, c.msg, err.Error())
+		})
+	}
+}
+
+func TestValidateLatLon(t *testing.T) {
+	assert.NoError(t, ValidateLatLon("user", orb.Point{180, -90}))
+	assert.NoError(t, ValidateLatLon("user", orb.Point{-180, 90}))
+	err := ValidateLatLon("markers[2]", orb.Point{10, 91})
+	assert.EqualError(t, err, "markers[2].lat = 91: out of range [-90, 90]")
+	err = ValidateLatLon("markers[0]", orb.Point{math.Inf(-1), 0})
+	assert.EqualError(t, err, "markers[0].lon = -Inf: not a finite number")
+	// Latitude is reported first when both are bad.
+	err = ValidateLatLon("p", orb.Point{math.NaN(), math.NaN()})
+	assert.EqualError(t, err, "p.lat = NaN: not a finite number")
+}
+
+func TestNewDropsZeroLengthSegments(t *testing.T) {
+	a, b, c := orb.Point{10, 50}, orb.Point{10.01, 50}, orb.Point{10.01, 50.01}
+	// The speeds of the zero-length segments (entries 0 and 2) are ignored, even when unusable.
+	r, err := New([]orb.Point{a, a, b, b, c}, []float64{-5, 10, math.NaN(), 20})
+	require.NoError(t, err)
+	assert.Equal(t, []orb.Point{a, b, c}, r.Points())
+	require.Equal(t, 2, r.NumSegments())
+	assert.Equal(t, 10.0, r.Segment(0).SpeedMps)
+	assert.Equal(t, 20.0, r.Segment(1).SpeedMps)
+
+	// Longitudes -180 and 180 are one point, and so is every longitude at a pole.
+	r, err = New([]orb.Point{{179.9, 0}, {180, 0}, {-180, 0}, {-179.9, 0}}, []float64{1, 2, 3})
+	require.NoError(t, err)
+	assert.Equal(t, 2, r.NumSegments())
+	assert.Equal(t, []float64{1, 3}, []float64{r.Segment(0).SpeedMps, r.Segment(1).SpeedMps})
+	r, err = New([]orb.Point{{0, 89}, {0, 90}, {120, 90}, {120, 89}}, []float64{1, 2, 3})
+	require.NoError(t, err)
+	assert.Equal(t, 2, r.NumSegments())
+}
+
+// TestLengthIsSumOfGeodesics: segment lengths are WGS84 geodesics (SPEC §4).
+func TestLengthIsSumOfGeodesics(t *testing.T) {
+	pts := []orb.Point{{-0.1276, 51.5072}, {2.3522, 48.8566}, {13.405, 52.52}, {13.405, 52.52}, {-3.7038, 40.4168}}
+	r, err := New(pts, []float64{30})
+	require.NoError(t, err)
+	want := GeodesicDistM(pts[0], pts[1]) + GeodesicDistM(pts[1], pts[2]) + GeodesicDistM(pts[2], pts[4])
+	assert.Equal(t, want, r.LengthM())
+	assert.InDelta(t, want/30, r.DurationS(), 1e-9)
+	for i := range r.NumSegments() {
+		sg := r.Segment(i)
+		assert.Equal(t, GeodesicDistM(sg.From, sg.To), sg.LengthM)
+	}
+}
+
+func TestSegmentHeadings(t *testing.T) {
+	cases := []struct {
+		name string
+		a, b orb.Point
+		want float64
+		tol  float64
+	}{
+		{"north", orb.Point{5, 10}, orb.Point{5, 11}, 0, 0},
+		{"east", orb.Point{5, 10}, orb.Point{6, 10}, 90, 0},
+		{"south", orb.Point{5, 10}, orb.Point{5, 9}, 180, 0},
+		{"west", orb.Point{5, 10}, orb.Point{4, 10}, 270, 0},
+		{"east across the antimeridian", orb.Point{179.5, 0}, orb.Point{-179.5, 0}, 90, 0},
+		{"west across the antimeridian", orb.Point{-179.5, 0}, orb.Point{179.5, 0}, 270, 0},
+		{"just west of north stays below 360", orb.Point{5, 10}, orb.Point{5 - 1e-12, 11}, 360 - 5.6e-11, 1e-11},
+		// On the Mercator plane a 45° bearing needs Δx = Δy, i.e. Δλ = ln tan(π/4 + φ/2) at the
+		// equator: ln tan(π/4 + 1°/2)/(π/180) degrees of longitude per degree of latitude.
+		{"north-east on the Mercator plane", orb.Point{0, 0}, orb.Point{math.Log(math.Tan(math.Pi/4+0.5*degRad)) * radDeg, 1}, 45, 1e-12},
+		// Beyond the Mercator clamp (85.0511°) a meridian segment has Δx = Δy = 0: the limit rule.
+		{"beyond the clamp going south", orb.Point{20, 89.5}, orb.Point{20, 88}, 180, 0},
+		{"beyond the clamp going north", orb.Point{20, 88}, orb.Point{20, 89.5}, 0, 0},
+	}
+	for _, c := range cases {
+		r, err := New([]orb.Point{c.a, c.b}, []float64{1})
+		require.NoError(t, err, c.name)
+		got := r.Segment(0).HeadingDeg
+		if math.Abs(got-c.want) > c.tol || got < 0 || got >= 360 {
+			t.Errorf("%s: heading of %v → %v = %.15g, want %.15g (off by %.3g°, tolerance %.3g°)",
+				c.name, c.a, c.b, got, c.want, math.Abs(got-c.want), c.tol)
+		}
+	}
+}
+
+// TestHeadingAgainstRhumbSolve checks segment headings against GeographicLib's RhumbSolve on a
+// sphere (-e 6378137 0): a rhumb line's azimuth is constant and is exactly the bearing of the
+// straight line on the Mercator plane, with Δλ the short way. Latitudes stay inside the Mercator
+// clamp, where the two agree by definition.
+func TestHeadingAgainstRhumbSolve(t *testing.T) {
+	bin, err := exec.LookPath("RhumbSolve")
+	if err != nil {
+		if os.Getenv("CI") == "true" {
+			t.Fatal("RhumbSolve not found: CI must install Debian package geographiclib-tools")
+		}
+		t.Skip("install Debian package geographiclib-tools")
+	}
+	rng := rand.New(rand.NewPCG(3, 14))
+	type pair struct{ a, b orb.Point }
+	var pairs []pair
+	for i := range 600 {
+		a := orb.Point{360*rng.Float64() - 180, 170*rng.Float64() - 85}
+		var b orb.Point
+		switch i % 3 {
+		case 0: // anywhere
+			b = orb.Point{360*rng.Float64() - 180, 170*rng.Float64() - 85}
+		case 1: // near, distances log-uniform from 1 m to 100 km
+			b = offsetPoint(a, 360*rng.Float64(), math.Exp(rng.Float64()*math.Log(1e5)))
+			b[1] = math.Max(-85, math.Min(85, b[1]))
+		default: // across the antimeridian
+			a[0] = 180 - 5*rng.Float64()
+			b = orb.Point{-180 + 5*rng.Float64(), 170*rng.Float64() - 85}
+		}
+		if math.Abs(math.Remainder(b[0]-a[0], 360)) > 179.999 || a == b {
+			continue // two shortest rhumb lines, or none
+		}
+		pairs = append(pairs, pair{a, b})
+	}
+	dec := func(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
+	var in bytes.Buffer
+	for _, p := range pairs {
+		fmt.Fprintf(&in, "%s %s %s %s\n", dec(p.a[1]), dec(p.a[0]), dec(p.b[1]), dec(p.b[0]))
+	}
+	cmd := exec.Command(bin, "-i", "-e", "6378137", "0", "-p", "9")
+	cmd.Stdin = &in
+	out, err := cmd.Output()
+	require.NoError(t, err)
+	sc := bufio.NewScanner(bytes.NewReader(out))
+	i := 0
+	for ; sc.Scan(); i++ {
+		f := strings.Fields(sc.Text())
+		require.Len(t, f, 3, "RhumbSolve line %d", i+1)
+		want, err := strconv.ParseFloat(f[0], 64)
+		require.NoError(t, err)
+		got := mercatorHeadingDeg(pairs[i].a, pairs[i].b)
+		// Near-coincident pairs: the inputs' own resolution limits the bearing (10 nm lateral).
+		tol := math.Max(1e-9, 1e-8/GeodesicDistM(pairs[i].a, pairs[i].b)*radDeg)
+		if d := angleDiffDeg(got, want); d > tol || got < 0 || got >= 360 {
+			t.Errorf("heading %v → %v = %.12f, want %.12f (RhumbSolve on the sphere) (off by %.3g°, tolerance %.3g°)",
+				pairs[i].a, pairs[i].b, got, want, d, tol)
+		}
+	}
+	require.Equal(t, len(pairs), i, "RhumbSolve answered %d lines for %d pairs", i, len(pairs))
+}
