@@ -42,17 +42,38 @@ type Footprint struct {
 // bounded for every pitch below 90°.
 func (v *View) Footprint() Footprint {
 	var fp Footprint
-	near := v.bottom
-	far := max(v.top, v.farRow)
-	if far >= near {
+	uv, near, far, ok := v.trapezoid()
+	if !ok {
 		fp.Empty = true
 		return fp
 	}
+	fp.uv = uv
 	fp.NearRowPx, fp.FarRowPx = near, far
 	fp.Wrapped = v.wrapped
-	rows := [2]float64{near, far}
-	var widthPx, vRow [2]float64
-	for i, y := range rows {
+	for i, q := range uv {
+		m := v.mercatorOf(q[0], q[1])
+		fp.Mercator[i] = m
+		fp.Vertices[i] = m.LatLon()
+		d := math.Hypot(q[0]-v.uA, q[1]-v.vA) / v.scale * v.groundScale
+		fp.VisibleRadiusM = max(fp.VisibleRadiusM, d)
+	}
+	// A trapezoid: height (v_far − v_near) times the mean of its widths.
+	areaPx := (uv[3][1] - uv[0][1]) * ((uv[1][0] - uv[0][0]) + (uv[2][0] - uv[3][0])) / 2
+	g := v.groundScale / v.scale
+	fp.AreaM2 = areaPx * g * g
+	return fp
+}
+
+// trapezoid returns the footprint in the ground frame (world pixels),
+// vertices near-left, near-right, far-right, far-left, with the screen rows
+// of its near and far edges; ok is false when it is empty.
+func (v *View) trapezoid() (uv [4][2]float64, near, far float64, ok bool) {
+	near = v.bottom
+	far = max(v.top, v.farRow)
+	if far >= near {
+		return uv, near, far, false
+	}
+	for i, y := range [2]float64{near, far} {
 		// Both rows are below the horizon: the near row is below the far
 		// row, and the far row is at or below the far-limit row, which lies
 		// below the horizon for every k > 1.
@@ -60,27 +81,26 @@ func (v *View) Footprint() Footprint {
 		depth := v.focal + w*v.sinP
 		ul := (v.left - v.cx) * depth / v.focal
 		ur := (v.right - v.cx) * depth / v.focal
-		vRow[i] = w
-		widthPx[i] = ur - ul
 		if i == 0 {
-			fp.uv[0] = [2]float64{ul, w}
-			fp.uv[1] = [2]float64{ur, w}
+			uv[0], uv[1] = [2]float64{ul, w}, [2]float64{ur, w}
 		} else {
-			fp.uv[2] = [2]float64{ur, w}
-			fp.uv[3] = [2]float64{ul, w}
+			uv[2], uv[3] = [2]float64{ur, w}, [2]float64{ul, w}
 		}
 	}
-	for i, q := range fp.uv {
-		m := v.mercatorOf(q[0], q[1])
-		fp.Mercator[i] = m
-		fp.Vertices[i] = m.LatLon()
-		d := math.Hypot(q[0]-v.uA, q[1]-v.vA) / v.scale * v.groundScale
-		fp.VisibleRadiusM = max(fp.VisibleRadiusM, d)
+	return uv, near, far, true
+}
+
+// footprintMercator returns the footprint's vertices in the Mercator plane
+// (X unwrapped, so they may pass ±πR), and false when it is empty.
+func (v *View) footprintMercator() (verts [4]Mercator, ok bool) {
+	uv, _, _, ok := v.trapezoid()
+	if !ok {
+		return verts, false
 	}
-	areaPx := (vRow[1] - vRow[0]) * (widthPx[0] + widthPx[1]) / 2
-	g := v.groundScale / v.scale
-	fp.AreaM2 = areaPx * g * g
-	return fp
+	for i, q := range uv {
+		verts[i] = v.mercatorOf(q[0], q[1])
+	}
+	return verts, true
 }
 
 // GroundDistM returns the ground distance in metres from the Mercator point

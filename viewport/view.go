@@ -39,6 +39,10 @@ type View struct {
 	farRow                   float64 // the screen row where depth = k·f; −Inf at pitch 0
 	groundScale              float64 // cos φ of the user's (clamped) latitude
 	wrapped                  bool
+
+	// The clear area and far row relative to the principal point, for
+	// inViewQuick; spanC bounds their magnitudes.
+	leftC, rightC, topC, bottomC, farC, spanC float64
 }
 
 // Prepare validates c and returns its prepared view. The camera is placed so
@@ -48,13 +52,23 @@ func Prepare(c Camera) (View, error) {
 	if err := c.validateFields(); err != nil {
 		return View{}, err
 	}
-	d := c.Device
 	var v View
-	v.cam = c
+	if err := v.place(&c); err != nil {
+		return View{}, err
+	}
+	return v, nil
+}
+
+// place prepares v for c, whose fields are known valid (validateFields):
+// everything but the anchor's horizon check, which depends on the pitch and
+// is made here. The drive timeline calls it once a tick.
+func (v *View) place(c *Camera) error {
+	d := &c.Device
+	v.cam = *c
 	v.focal = d.HeightPx / 2 / math.Tan(d.FovYDeg*(math.Pi/180)/2)
 	v.sinP, v.cosP = math.Sincos(c.PitchDeg * (math.Pi / 180))
 	if err := c.checkAnchor(v.focal, v.sinP, v.cosP); err != nil {
-		return View{}, err
+		return err
 	}
 	v.scale = ScalePxPerM(c.Zoom, d.TilePx)
 	v.cx, v.cy = d.WidthPx/2, d.HeightPx/2
@@ -75,16 +89,23 @@ func Prepare(c Camera) (View, error) {
 		v.farRow = v.cy - (d.FarRatio-1)*v.focal*v.cosP/(d.FarRatio*v.sinP)
 	}
 
+	v.leftC, v.rightC = v.left-v.cx, v.right-v.cx
+	v.topC, v.bottomC, v.farC = v.top-v.cy, v.bottom-v.cy, v.farRow-v.cy
+	// The edges' largest distance from the principal point, counting the
+	// far row only where it lies on the screen (above it, it cuts nothing
+	// the top edge does not).
+	v.spanC = max(-v.leftC, v.rightC, -v.topC, v.bottomC, -max(v.farC, -d.HeightPx))
+
 	v.user = ToMercator(c.User())
 	v.groundScale = GroundScale(c.LatDeg)
-	// Validate guarantees the anchor pixel is below the horizon.
+	// The anchor is below the horizon (checked above).
 	v.uA, v.vA, _ = v.groundOfPixel(d.AnchorX*d.WidthPx, d.AnchorY*d.HeightPx)
 	v.target = Mercator{
 		X: v.user.X - (v.uA*v.cosH+v.vA*v.sinH)/v.scale,
 		Y: v.user.Y - (-v.uA*v.sinH+v.vA*v.cosH)/v.scale,
 	}
 	v.wrapped = v.reachesHalfWorld()
-	return v, nil
+	return nil
 }
 
 // reachesHalfWorld reports whether any ground seen on the screen (down to
@@ -230,6 +251,66 @@ func (v *View) ProjectMercator(m Mercator) ScreenPoint {
 	// the margin keeps InView and MarginPx consistent to the last bit.
 	margin := min(x-v.left, v.right-x, y-v.top, v.bottom-y, y-v.farRow)
 	return ScreenPoint{X: x, Y: y, DepthPx: depth, MarginPx: margin}
+}
+
+// quickTest is one view's in-view test in the ground frame, for batches of
+// points: rows of the screen are lines of constant v, so the clear area's
+// top and bottom and the far row become v ∈ [vNear, vFar], and its sides
+// become f·u ≥ (left − cx)·depth and f·u ≤ (right − cx)·depth with
+// depth = f + v·sin θ — no division. An answer counts as sure when every
+// test passes or one fails by more than 1e-9 of the magnitudes involved,
+// far beyond the ~1e-16 relative rounding of this form and of
+// ProjectMercator's, so a sure answer is exactly ProjectMercator's; the
+// rest must be asked of ProjectMercator.
+type quickTest struct {
+	empty               bool
+	tx, ty              float64
+	sCosH, sSinH        float64
+	vNear, vFar, tolV   float64
+	focal, sinP         float64
+	leftC, rightC, tolS float64
+	// invGA and invGB turn the side tests' values a and b into world
+	// pixels from the side lines: 1/|∇a| with ∇a = (f, −leftC·sin θ) in
+	// (u, v), and likewise for b; invScale turns world pixels into Mercator
+	// metres.
+	invGA, invGB, invScale float64
+}
+
+func (v *View) quick() quickTest {
+	uv, _, _, ok := v.trapezoid()
+	if !ok {
+		return quickTest{empty: true}
+	}
+	vNear, vFar := uv[0][1], uv[3][1]
+	return quickTest{
+		tx: v.target.X, ty: v.target.Y, sCosH: v.sCosH, sSinH: v.sSinH,
+		vNear: vNear, vFar: vFar, tolV: 1e-9 * (math.Abs(vNear) + math.Abs(vFar) + v.focal),
+		focal: v.focal, sinP: v.sinP,
+		leftC: v.leftC, rightC: v.rightC, tolS: 1e-9 * v.spanC,
+		invGA:    1 / math.Hypot(v.focal, v.leftC*v.sinP),
+		invGB:    1 / math.Hypot(v.focal, v.rightC*v.sinP),
+		invScale: 1 / v.scale,
+	}
+}
+
+// test returns whether the point dx, dy Mercator metres from T (the short
+// way) is in view, and whether that answer is sure.
+func (q *quickTest) test(dx, dy float64) (in, sure bool) {
+	w := dx*q.sSinH + dy*q.sCosH
+	tolV := q.tolV
+	if w < q.vNear-tolV || w > q.vFar+tolV {
+		return false, true
+	}
+	u := dx*q.sCosH - dy*q.sSinH
+	depth := q.focal + w*q.sinP
+	fu := q.focal * u
+	a, b := fu-q.leftC*depth, q.rightC*depth-fu
+	tolS := q.tolS * depth
+	if a < -tolS || b < -tolS {
+		return false, true
+	}
+	sure = a > tolS && b > tolS && w > q.vNear+tolV && w < q.vFar-tolV
+	return sure, sure
 }
 
 // InView reports whether the Mercator point m is in view: it has a pixel in

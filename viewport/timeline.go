@@ -1,0 +1,526 @@
+package viewport
+
+import (
+	"cmp"
+	"fmt"
+	"math"
+	"slices"
+
+	"github.com/paulmach/orb"
+
+	"github.com/viewspec/viewspec/routes"
+	"github.com/viewspec/viewspec/rules"
+)
+
+// Marker is a place that may be shown on the map: an id (ties between equal
+// priorities go to the smaller id, byte by byte), a position ([lon, lat]
+// degrees) and a priority (higher first).
+type Marker struct {
+	ID       string
+	Point    orb.Point
+	Priority float64
+}
+
+// Drive is the input of the drive timeline (SPEC §5) apart from its markers:
+// a route with speeds, where on it the drive starts, the device, the zoom
+// rules, and the timeline's horizon, tick, on-screen cap and bucket edges.
+type Drive struct {
+	Route        *routes.Route
+	StartAlongM  float64
+	Device       Device
+	Rules        *rules.Set
+	HorizonS     float64    // seconds, > 0; default 120
+	TickS        float64    // seconds, > 0, dividing HorizonS; default 0.25
+	Cap          int        // markers shown at once, ≥ 1; default 4
+	BucketEdgesS [2]float64 // e1 < e2 ≤ HorizonS, seconds; default 5, 35
+
+	// OnTick, when set, is called at every tick with the tick's index, its
+	// view and the indices of the markers shown (valid during the call
+	// only), for pictures and per-tick output.
+	OnTick func(tick int, v *View, shown []int)
+}
+
+// NewDrive returns a drive on r from startAlongM with the defaults of SPEC
+// §5: a 120 s horizon, 0.25 s ticks, 4 markers at once, buckets at 5 and
+// 35 s.
+func NewDrive(r *routes.Route, startAlongM float64, d Device, rs *rules.Set) Drive {
+	return Drive{Route: r, StartAlongM: startAlongM, Device: d, Rules: rs,
+		HorizonS: 120, TickS: 0.25, Cap: 4, BucketEdgesS: [2]float64{5, 35}}
+}
+
+// Ticks returns the number of ticks after t = 0: HorizonS/TickS.
+func (d *Drive) Ticks() int { return int(math.Round(d.HorizonS / d.TickS)) }
+
+// Validate reports the first invalid field of d as a *FieldError (field
+// names as on the wire), or an error from the rule set.
+func (d *Drive) Validate() error {
+	switch {
+	case d.Route == nil:
+		return &FieldError{Field: "route", Value: math.NaN(), Reason: "missing"}
+	case d.Rules == nil:
+		return &FieldError{Field: "rules", Value: math.NaN(), Reason: "missing"}
+	case !(d.HorizonS > 0) || math.IsInf(d.HorizonS, 0):
+		return &FieldError{Field: "horizon_s", Value: d.HorizonS, Reason: "horizon must be finite and positive"}
+	case !(d.TickS > 0) || math.IsInf(d.TickS, 0):
+		return &FieldError{Field: "tick_s", Value: d.TickS, Reason: "tick must be finite and positive"}
+	}
+	if n := d.HorizonS / d.TickS; math.Abs(n-math.Round(n)) > 1e-9 || n > 1e7 {
+		return &FieldError{Field: "tick_s", Value: d.TickS,
+			Reason: fmt.Sprintf("tick must divide the horizon %s s within 1e-9 (and give at most 1e7 ticks)", formatValue(d.HorizonS))}
+	}
+	if d.Cap < 1 {
+		return &FieldError{Field: "cap", Value: float64(d.Cap), Reason: "cap must be at least 1"}
+	}
+	e1, e2 := d.BucketEdgesS[0], d.BucketEdgesS[1]
+	switch {
+	case !(e1 >= 0) || math.IsInf(e1, 0):
+		return &FieldError{Field: "bucket_edges_s[0]", Value: e1, Reason: "bucket edge must be finite and non-negative"}
+	case !(e2 > e1) || math.IsInf(e2, 0):
+		return &FieldError{Field: "bucket_edges_s[1]", Value: e2, Reason: "bucket edges must increase"}
+	case e2 > d.HorizonS:
+		return &FieldError{Field: "bucket_edges_s[1]", Value: e2, Reason: "bucket edge beyond the horizon " + formatValue(d.HorizonS) + " s"}
+	case !(d.StartAlongM >= 0 && d.StartAlongM <= d.Route.LengthM()):
+		return &FieldError{Field: "start_along_m", Value: d.StartAlongM,
+			Reason: "start must be on the route, within [0, " + formatValue(d.Route.LengthM()) + "] m"}
+	}
+	if err := d.Rules.Validate(); err != nil {
+		return err
+	}
+	c := Camera{LatDeg: 0, LonDeg: 0, Zoom: d.Rules.MinZoom, Device: d.Device}
+	return c.validateFields()
+}
+
+// Bucket says when a marker was first shown: within the first edge
+// (early), between the edges (mid), from the second edge to the horizon
+// (late), or never.
+type Bucket int8
+
+const (
+	Never Bucket = iota
+	Early
+	Mid
+	Late
+)
+
+// String returns the wire name of b.
+func (b Bucket) String() string {
+	switch b {
+	case Early:
+		return "early"
+	case Mid:
+		return "mid"
+	case Late:
+		return "late"
+	}
+	return "never"
+}
+
+// MarkerTimeline is what the drive timeline says of one marker.
+type MarkerTimeline struct {
+	// Visible and FirstVisibleS: whether and when (seconds) it was first in
+	// view.
+	Visible       bool
+	FirstVisibleS float64
+	// Shown and FirstShownS: whether and when it was first given a slot.
+	Shown       bool
+	FirstShownS float64
+	// ShownS is the number of ticks it was shown × the tick, seconds.
+	ShownS float64
+	Bucket Bucket
+	// BucketMarginS is the decision margin of the bucket: seconds from the
+	// first-shown time to the nearest bucket edge or the horizon (0 when
+	// it lies on one). Meaningless for Never.
+	BucketMarginS float64
+	// FirstShownMarginPx is how close the first showing came to going the
+	// other way in pixels: the smaller |in-view margin| of the marker at
+	// that tick and at the tick before (that tick alone at t = 0, or when
+	// the marker had no pixel the tick before). Under 0.5 px the first-shown
+	// tick may differ between implementations that agree within half a
+	// pixel.
+	FirstShownMarginPx float64
+}
+
+// Timeline runs the drive of SPEC §5 and returns, for each marker in the
+// order given, when it was first visible and first shown, how long it was
+// shown and its bucket. Motion is exact in time; the camera at tick k
+// follows the route position at t = k·tick, the heading turned toward the
+// current segment's bearing by at most max_turn_rate·tick, and the zoom and
+// pitch of the rules fed by the current speed and the distance to the next
+// turn. Memory grows with markers + ticks, not their product.
+func Timeline(d *Drive, ms []Marker) ([]MarkerTimeline, error) {
+	if err := d.Validate(); err != nil {
+		return nil, err
+	}
+	merc, rank, err := rankMarkers(ms)
+	if err != nil {
+		return nil, err
+	}
+	return newDriveRun(d, merc, rank).run()
+}
+
+// rankMarkers validates ms and returns their Mercator points and their
+// ranks for free slots: highest priority first, then the smallest id byte
+// by byte.
+func rankMarkers(ms []Marker) ([]Mercator, []int32, error) {
+	merc := make([]Mercator, len(ms))
+	seen := make(map[string]int, len(ms))
+	for i, m := range ms {
+		if lat, lon := m.Point[1], m.Point[0]; !(lat >= -90 && lat <= 90 && lon >= -180 && lon <= 180) {
+			return nil, nil, routes.ValidateLatLon(fmt.Sprintf("markers[%d]", i), m.Point)
+		}
+		if !finite(m.Priority) {
+			return nil, nil, &FieldError{Field: fmt.Sprintf("markers[%d].priority", i), Value: m.Priority, Reason: "priority must be finite"}
+		}
+		if j, dup := seen[m.ID]; dup {
+			return nil, nil, &FieldError{Field: fmt.Sprintf("markers[%d].id", i), Value: float64(j),
+				Reason: fmt.Sprintf("duplicate id %q (the value is the first index)", m.ID)}
+		}
+		seen[m.ID] = i
+		merc[i] = ToMercator(m.Point)
+	}
+	order := make([]int, len(ms))
+	for i := range order {
+		order[i] = i
+	}
+	slices.SortFunc(order, func(a, b int) int {
+		if c := cmp.Compare(ms[b].Priority, ms[a].Priority); c != 0 {
+			return c
+		}
+		return cmp.Compare(ms[a].ID, ms[b].ID)
+	})
+	rank := make([]int32, len(ms))
+	for r, i := range order {
+		rank[i] = int32(r)
+	}
+	return merc, rank, nil
+}
+
+// driveRun is the state of one timeline run.
+type driveRun struct {
+	d     *Drive
+	merc  []Mercator
+	rank  []int32
+	grid  markerGrid
+	turns []float64
+
+	out     []MarkerTimeline
+	visTick []int32    // last tick each marker was in view; −1 never
+	prev    View       // the view at the tick before, for first-shown margins
+	shown   []int      // indices of the shown markers
+	unsure  []int32    // markers the quick test left to ProjectMercator
+	gMerc   []Mercator // merc in the grid's order
+
+	// Safe distances (see testSpan): the footprint's total movement so far
+	// in this epoch (Mercator metres), its vertices at the tick before, and
+	// per marker the total movement up to which its answer holds. An epoch
+	// ends when the footprint's continuity does (empty, wrapped, first
+	// tick).
+	moved     float64
+	epoch     int32
+	prevVerts [4]Mercator
+	prevOK    bool
+	safeUntil []float64
+	safeIn    []bool
+	safeEpoch []int32
+	visible   []int32 // indices in view at this tick
+
+	// see finds the markers in view at a tick (calling test for each
+	// candidate); the indexed search by default.
+	see func(r *driveRun, k int32, v *View)
+}
+
+func newDriveRun(d *Drive, merc []Mercator, rank []int32) *driveRun {
+	n := len(merc)
+	r := &driveRun{d: d, merc: merc, rank: rank, grid: newMarkerGrid(merc),
+		turns:   d.Route.Turns(d.Rules.Turn.MinAngleDeg),
+		out:     make([]MarkerTimeline, n),
+		visTick: make([]int32, n),
+		shown:   make([]int, 0, d.Cap),
+		// Room for every marker (a marker is tested once a tick, and the
+		// two copies across the antimeridian are never both near a view
+		// that does not wrap), so testSpan writes without growing them.
+		visible: make([]int32, 0, 2*n),
+		unsure:  make([]int32, 0, 2*n),
+
+		safeUntil: make([]float64, n),
+		safeIn:    make([]bool, n),
+		safeEpoch: make([]int32, n),
+		see:       (*driveRun).seeIndexed,
+	}
+	for i := range n {
+		r.visTick[i], r.safeEpoch[i] = -1, -1
+	}
+	r.gMerc = make([]Mercator, n)
+	for j, i := range r.grid.items {
+		r.gMerc[j] = merc[i]
+	}
+	return r
+}
+
+func (r *driveRun) run() ([]MarkerTimeline, error) {
+	d := r.d
+	rt := d.Route
+	n := d.Ticks()
+	lengthM := rt.LengthM()
+	var st rules.State
+	var heading float64
+	var v View
+	cam := Camera{Device: d.Device}
+	for k := 0; k <= n; k++ {
+		t := float64(k) * d.TickS
+		along := rt.AlongAfterS(d.StartAlongM, t)
+		speed := rt.SpeedMpsAt(along)
+		if along >= lengthM {
+			speed = 0 // stopped at the route's end
+		}
+		turnDist, hasTurn := routes.NextTurnDistM(r.turns, along)
+		target := rt.HeadingDegAt(along)
+		if k == 0 {
+			var err error
+			if st, err = d.Rules.Start(speed, turnDist, hasTurn); err != nil {
+				return nil, err
+			}
+			heading = target
+		} else {
+			if err := st.Step(d.TickS, speed, turnDist, hasTurn); err != nil {
+				return nil, err
+			}
+			heading = rules.TurnHeadingDeg(heading, target, d.Rules.MaxTurnRateDegPerS*d.TickS)
+		}
+		pos := rt.PointAt(along)
+		cam.LatDeg, cam.LonDeg = pos[1], pos[0]
+		cam.HeadingDeg, cam.PitchDeg, cam.Zoom = heading, st.PitchDeg(), st.Zoom()
+		if err := v.place(&cam); err != nil {
+			return nil, fmt.Errorf("at t = %s s: %w", formatValue(t), err)
+		}
+		r.tick(k, t, &v)
+		if d.OnTick != nil {
+			d.OnTick(k, &v, r.shown)
+		}
+		r.prev = v
+	}
+	r.finish()
+	return r.out, nil
+}
+
+// testSpan decides which markers of items are in view at tick k, their X
+// shifted by shiftM (0, or a world's width for the copies across the
+// antimeridian). Unsure answers are left in r.unsure for ProjectMercator.
+//
+// A marker tested at X unshifted also gets a safe distance: a lower bound
+// on its Mercator distance to the footprint's boundary (from outside, the
+// largest violated half-plane; from inside, the nearest one). The footprint
+// is convex and its vertices move by at most δ a tick, so no point of it
+// moves farther than δ (every point is a fixed blend of the vertices): the
+// marker keeps its answer until the footprint has moved, in total, as far
+// as its safe distance, and is not tested again until then.
+//
+// The loop runs for every marker near the view at every tick, so the test
+// is written out here with its terms in locals, and results go into slices
+// sized for every marker: nothing in the loop calls out.
+func (r *driveRun) testSpan(k int32, sp span, q *quickTest) {
+	vis, unsure := r.visible, r.unsure
+	nv, nu := len(vis), len(unsure)
+	vis, unsure = vis[:cap(vis)], unsure[:cap(unsure)]
+	tx, ty, sc, ss := q.tx-sp.shiftM, q.ty, q.sCosH, q.sSinH
+	vNear, vFar, tolV := q.vNear, q.vFar, q.tolV
+	focal, sinP, leftC, rightC, tolS0 := q.focal, q.sinP, q.leftC, q.rightC, q.tolS
+	invGA, invGB := q.invGA, q.invGB
+	useSafe := sp.shiftM == 0
+	epoch, moved := r.epoch, r.moved
+	// Safe distances in world pixels become Mercator metres, shrunk by 1e-9
+	// and 1 mm for the rounding of the distances and of the running total.
+	toM := q.invScale * (1 - 1e-9)
+	const slackM = 1e-3
+	// Everything per marker is kept in grid order, so a span is a
+	// contiguous run of each slice.
+	merc := r.gMerc[sp.lo:sp.hi]
+	orig := r.grid.items[sp.lo:sp.hi]
+	safeUntil := r.safeUntil[sp.lo:sp.hi]
+	safeIn := r.safeIn[sp.lo:sp.hi]
+	safeEpoch := r.safeEpoch[sp.lo:sp.hi]
+	safeEpoch = safeEpoch[:len(merc)]
+	safeUntil = safeUntil[:len(merc)]
+	safeIn = safeIn[:len(merc)]
+	orig = orig[:len(merc)]
+	for j, m := range merc {
+		if useSafe && safeEpoch[j] == epoch && moved < safeUntil[j] {
+			if safeIn[j] {
+				vis[nv] = orig[j]
+				nv++
+			}
+			continue
+		}
+		dx, dy := m.X-tx, m.Y-ty
+		w := dx*ss + dy*sc
+		if w < vNear-tolV || w > vFar+tolV {
+			if useSafe {
+				safeEpoch[j], safeIn[j] = epoch, false
+				safeUntil[j] = moved + max(vNear-w, w-vFar)*toM - slackM
+			}
+			continue
+		}
+		depth := focal + w*sinP
+		fu := focal * (dx*sc - dy*ss)
+		a, b := fu-leftC*depth, rightC*depth-fu
+		tolS := tolS0 * depth
+		if a < -tolS || b < -tolS {
+			if useSafe {
+				safeEpoch[j], safeIn[j] = epoch, false
+				safeUntil[j] = moved + max(-a*invGA, -b*invGB)*toM - slackM
+			}
+			continue
+		}
+		if a > tolS && b > tolS && w > vNear+tolV && w < vFar-tolV {
+			vis[nv] = orig[j]
+			nv++
+			if useSafe {
+				safeEpoch[j], safeIn[j] = epoch, true
+				safeUntil[j] = moved + min(w-vNear, vFar-w, a*invGA, b*invGB)*toM - slackM
+			}
+		} else {
+			if useSafe {
+				safeEpoch[j] = epoch - 1 // test again next tick
+			}
+			unsure[nu] = orig[j]
+			nu++
+		}
+	}
+	r.visible, r.unsure = vis[:nv], unsure[:nu]
+}
+
+// tick finds who is in view at tick k and gives out the slots.
+func (r *driveRun) tick(k int, t float64, v *View) {
+	k32 := int32(k)
+	r.visible = r.visible[:0]
+	r.see(r, k32, v)
+	for _, i := range r.visible {
+		if !r.out[i].Visible {
+			r.out[i].Visible, r.out[i].FirstVisibleS = true, t
+		}
+	}
+	// Shown markers keep their slot while visible.
+	kept := r.shown[:0]
+	for _, i := range r.shown {
+		if r.visTick[i] == k32 {
+			kept = append(kept, i)
+		}
+	}
+	r.shown = kept
+	// Free slots go to visible, not-shown markers by rank.
+	for len(r.shown) < r.d.Cap {
+		best := -1
+		for _, i32 := range r.visible {
+			i := int(i32)
+			if r.isShown(i) {
+				continue
+			}
+			if best < 0 || r.rank[i] < r.rank[best] {
+				best = i
+			}
+		}
+		if best < 0 {
+			break
+		}
+		r.shown = append(r.shown, best)
+		o := &r.out[best]
+		if !o.Shown {
+			o.Shown, o.FirstShownS = true, t
+			// Its own margin now, and at the tick before (where it has a
+			// pixel there).
+			o.FirstShownMarginPx = math.Abs(v.ProjectMercator(r.merc[best]).MarginPx)
+			if k > 0 {
+				if sp := r.prev.ProjectMercator(r.merc[best]); sp.HasPixel() {
+					o.FirstShownMarginPx = min(o.FirstShownMarginPx, math.Abs(sp.MarginPx))
+				}
+			}
+		}
+	}
+	for _, i := range r.shown {
+		r.out[i].ShownS++ // ticks for now; seconds in finish
+	}
+}
+
+// seeIndexed tests the markers whose grid cells meet the footprint's
+// bounding box (all of them when the view wraps round the world).
+func (r *driveRun) seeIndexed(k int32, v *View) {
+	r.unsure = r.unsure[:0]
+	verts, ok := v.footprintMercator()
+	if !ok || v.wrapped || !r.prevOK {
+		// A new epoch: no earlier safe distance holds.
+		r.epoch++
+		r.moved = 0
+	} else {
+		var delta float64
+		for j, p := range verts {
+			delta = max(delta, math.Hypot(p.X-r.prevVerts[j].X, p.Y-r.prevVerts[j].Y))
+		}
+		r.moved += delta
+	}
+	r.prevVerts, r.prevOK = verts, ok && !v.wrapped
+	if v.wrapped {
+		for i := range r.merc {
+			if v.ProjectMercator(r.merc[i]).InView() {
+				r.visTick[i] = k
+				r.visible = append(r.visible, int32(i))
+			}
+		}
+		return
+	}
+	if !ok {
+		return
+	}
+	q := v.quick()
+	minX, minY, maxX, maxY := verts[0].X, verts[0].Y, verts[0].X, verts[0].Y
+	for _, p := range verts[1:] {
+		minX, maxX = min(minX, p.X), max(maxX, p.X)
+		minY, maxY = min(minY, p.Y), max(maxY, p.Y)
+	}
+	// Pad by a millimetre so rounding at the edge cannot cull a marker the
+	// projection puts in view.
+	const padM = 1e-3
+	for _, sp := range r.grid.spans(minX-padM, minY-padM, maxX+padM, maxY+padM) {
+		r.testSpan(k, sp, &q)
+	}
+	for _, i := range r.unsure {
+		if v.ProjectMercator(r.merc[i]).InView() {
+			r.visible = append(r.visible, i)
+		}
+	}
+	for _, i := range r.visible {
+		r.visTick[i] = k
+	}
+}
+
+func (r *driveRun) isShown(i int) bool {
+	for _, j := range r.shown {
+		if j == i {
+			return true
+		}
+	}
+	return false
+}
+
+// finish turns tick counts into seconds and assigns buckets.
+func (r *driveRun) finish() {
+	d := r.d
+	e1, e2 := d.BucketEdgesS[0], d.BucketEdgesS[1]
+	for i := range r.out {
+		o := &r.out[i]
+		o.ShownS *= d.TickS
+		if !o.Shown {
+			o.Bucket = Never
+			continue
+		}
+		t := o.FirstShownS
+		switch {
+		case t < e1:
+			o.Bucket = Early
+		case t < e2:
+			o.Bucket = Mid
+		default:
+			o.Bucket = Late
+		}
+		o.BucketMarginS = min(math.Abs(t-e1), math.Abs(t-e2), d.HorizonS-t)
+	}
+}
