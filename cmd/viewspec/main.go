@@ -53,6 +53,7 @@ reference implementation and prints cameras in readable, JSON or GeoJSON form.`,
 		SilenceUsage:  true,
 		SilenceErrors: true,
 	}
-	root.AddCommand(newEvalCmd(), newFootprintCmd(), newProjectCmd(), newMetricsCmd())
+	root.AddCommand(newEvalCmd(), newFootprintCmd(), newProjectCmd(), newMetricsCmd(),
+		newRulesCmd(), newZoomCmd(), newTimelineCmd())
 	return root
 }

@@ -1,0 +1,156 @@
+package main
+
+import (
+	"bytes"
+	"encoding/csv"
+	"encoding/json"
+	"fmt"
+	"io"
+	"os"
+	"strconv"
+	"text/tabwriter"
+
+	"github.com/spf13/cobra"
+
+	"github.com/viewspec/viewspec/fixtures"
+	"github.com/viewspec/viewspec/viewport"
+)
+
+// readDevice reads a device JSON object (SPEC §2) from a file, or returns
+// the default phone when name is empty.
+func readDevice(name string) (viewport.Device, error) {
+	if name == "" {
+		return defaultCamera().Device, nil
+	}
+	data, err := os.ReadFile(name)
+	if err != nil {
+		return viewport.Device{}, &exitError{2, err}
+	}
+	var w fixtures.DeviceWire
+	if err := json.NewDecoder(bytes.NewReader(data)).Decode(&w); err != nil {
+		return viewport.Device{}, &exitError{2, fmt.Errorf("%s: %s", name, describeJSONError(data, err))}
+	}
+	d, err := w.Device("device")
+	if err != nil {
+		return viewport.Device{}, &exitError{2, fmt.Errorf("%s: %v", name, err)}
+	}
+	return d, nil
+}
+
+func newTimelineCmd() *cobra.Command {
+	var rf routeFlags
+	var markersFile, rulesFile, deviceFile, userArg string
+	var startAlongM, horizonS, tickS float64
+	var capN int
+	var edges []float64
+	var asJSON, asCSV bool
+	cmd := &cobra.Command{
+		Use:   "timeline",
+		Short: "Drive a route and print when each marker is first shown, for how long, and its bucket",
+		Long: `timeline drives the route from its start (or from --user, snapped, or
+--start-along-m) for the horizon, moving exactly in time at the route's
+speeds, with the camera's zoom and pitch from the rule set and the heading
+turning toward each segment's bearing at the rules' rate. At every tick it
+tests every marker against the view, gives the on-screen slots (--cap) to
+visible markers by priority, then id, and reports per marker when it was first
+visible and first shown, how many seconds it was shown, and its bucket:
+early, mid or late (by --bucket-edges-s) or never (SPEC §5).`,
+		Example: `  viewspec timeline --route drive.geojson --markers shops.csv --rules fixtures/rules/phone.yaml
+  viewspec timeline --route drive.gpx --speed-mps 14 --markers shops.geojson --rules incar.yaml --device car.json --csv`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error {
+			r, _, err := rf.load(cmd)
+			if err != nil {
+				return err
+			}
+			ms, err := readMarkersFile(markersFile)
+			if err != nil {
+				return err
+			}
+			rs, err := readRules(rulesFile)
+			if err != nil {
+				return err
+			}
+			dev, err := readDevice(deviceFile)
+			if err != nil {
+				return err
+			}
+			start := startAlongM
+			if userArg != "" {
+				if cmd.Flags().Changed("start-along-m") {
+					return &exitError{2, fmt.Errorf("give --user or --start-along-m, not both")}
+				}
+				u, err := parseLatLon(userArg)
+				if err != nil {
+					return &exitError{2, fmt.Errorf("--user %v", err)}
+				}
+				start = r.Snap(u).AlongM
+			}
+			d := viewport.NewDrive(r, start, dev, rs)
+			d.HorizonS, d.TickS, d.Cap = horizonS, tickS, capN
+			if len(edges) != 2 {
+				return &exitError{2, fmt.Errorf("--bucket-edges-s wants 2 values, got %d", len(edges))}
+			}
+			d.BucketEdgesS = [2]float64{edges[0], edges[1]}
+			got, err := viewport.Timeline(&d, ms)
+			if err != nil {
+				return &exitError{2, err}
+			}
+			lines := fixtures.TimelineLines(ms, got)
+			out := cmd.OutOrStdout()
+			switch {
+			case asJSON:
+				return writeJSON(out, fixtures.TimelineAnswer{Markers: lines})
+			case asCSV:
+				return writeTimelineCSV(out, lines)
+			}
+			return printTimeline(out, &d, lines)
+		},
+	}
+	rf.register(cmd)
+	cmd.Flags().StringVar(&markersFile, "markers", "", "markers `FILE`: CSV id,lat,lon[,priority] or GeoJSON points")
+	cmd.Flags().StringVar(&rulesFile, "rules", "", "rule `FILE` (YAML or JSON)")
+	cmd.Flags().StringVar(&deviceFile, "device", "", "device `FILE` (JSON object, SPEC §2); default: a phone, 390×844 px")
+	cmd.Flags().StringVar(&userArg, "user", "", "start where `LAT,LON` snaps to the route")
+	cmd.Flags().Float64Var(&startAlongM, "start-along-m", 0, "start this many metres along the route")
+	cmd.Flags().Float64Var(&horizonS, "horizon-s", 120, "how long to drive, seconds")
+	cmd.Flags().Float64Var(&tickS, "tick-s", 0.25, "time step, seconds (must divide the horizon)")
+	cmd.Flags().IntVar(&capN, "cap", 4, "markers shown at once")
+	cmd.Flags().Float64SliceVar(&edges, "bucket-edges-s", []float64{5, 35}, "bucket edges early|mid and mid|late, seconds")
+	cmd.Flags().BoolVar(&asJSON, "json", false, "print the wire answer (SPEC §6) as JSON")
+	cmd.Flags().BoolVar(&asCSV, "csv", false, "print CSV with a header line")
+	cmd.MarkFlagsMutuallyExclusive("json", "csv")
+	return cmd
+}
+
+func writeTimelineCSV(w io.Writer, lines []fixtures.MarkerTimelineWire) error {
+	cw := csv.NewWriter(w)
+	cw.Write([]string{"id", "first_visible_s", "first_shown_s", "shown_s", "bucket", "bucket_margin_s"})
+	for _, l := range lines {
+		cw.Write([]string{l.ID, optNum(l.FirstVisibleS), optNum(l.FirstShownS), fnum(l.ShownS), l.Bucket, optNum(l.BucketMarginS)})
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+func printTimeline(w io.Writer, d *viewport.Drive, lines []fixtures.MarkerTimelineWire) error {
+	fmt.Fprintf(w, "drive  %s of route from %s, %g s at %g s ticks, %d shown at once, buckets at %g and %g s\n\n",
+		meters(d.Route.LengthM()), meters(d.StartAlongM), d.HorizonS, d.TickS, d.Cap, d.BucketEdgesS[0], d.BucketEdgesS[1])
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(tw, "marker\tfirst visible s\tfirst shown s\tshown s\tbucket")
+	counts := map[string]int{}
+	for _, l := range lines {
+		vis, shown := "—", "—"
+		if l.FirstVisibleS != nil {
+			vis = strconv.FormatFloat(*l.FirstVisibleS, 'f', 2, 64)
+		}
+		if l.FirstShownS != nil {
+			shown = strconv.FormatFloat(*l.FirstShownS, 'f', 2, 64)
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%.2f\t%s\n", l.ID, vis, shown, l.ShownS, l.Bucket)
+		counts[l.Bucket]++
+	}
+	tw.Flush()
+	fmt.Fprintf(w, "\nearly %d, mid %d, late %d, never %d\n", counts["early"], counts["mid"], counts["late"], counts["never"])
+	return nil
+}
