@@ -25,6 +25,10 @@ type Device struct {
 	FarRatio float64
 }
 
+// MaxScreenPx bounds screen sizes and insets, in logical pixels: far
+// beyond any screen, and small enough that no intermediate overflows.
+const MaxScreenPx = 100000
+
 // NewDevice returns a device of width×height logical pixels with vertical
 // field of view fovYDeg and the defaults: 256-pixel tiles, the user at the
 // centre, no insets, far ratio 10.
@@ -84,11 +88,11 @@ func (c *Camera) validateFields() error {
 	if c.LatDeg >= -90 && c.LatDeg <= 90 && c.LonDeg >= -180 && c.LonDeg <= 180 &&
 		c.HeadingDeg >= 0 && c.HeadingDeg < 360 && c.PitchDeg >= 0 && c.PitchDeg < 90 &&
 		c.Zoom >= 0 && c.Zoom <= 30 &&
-		d.WidthPx > 0 && d.WidthPx <= math.MaxFloat64 && d.HeightPx > 0 && d.HeightPx <= math.MaxFloat64 &&
+		d.WidthPx > 0 && d.WidthPx <= MaxScreenPx && d.HeightPx > 0 && d.HeightPx <= MaxScreenPx &&
 		d.FovYDeg > 0 && d.FovYDeg < 180 && (d.TilePx == 256 || d.TilePx == 512) &&
 		d.AnchorX >= 0 && d.AnchorX <= 1 && d.AnchorY >= 0 && d.AnchorY <= 1 &&
-		d.InsetTopPx >= 0 && d.InsetTopPx <= math.MaxFloat64 && d.InsetRightPx >= 0 && d.InsetRightPx <= math.MaxFloat64 &&
-		d.InsetBottomPx >= 0 && d.InsetBottomPx <= math.MaxFloat64 && d.InsetLeftPx >= 0 && d.InsetLeftPx <= math.MaxFloat64 &&
+		d.InsetTopPx >= 0 && d.InsetTopPx <= MaxScreenPx && d.InsetRightPx >= 0 && d.InsetRightPx <= MaxScreenPx &&
+		d.InsetBottomPx >= 0 && d.InsetBottomPx <= MaxScreenPx && d.InsetLeftPx >= 0 && d.InsetLeftPx <= MaxScreenPx &&
 		d.FarRatio > 1 && d.FarRatio <= math.MaxFloat64 &&
 		d.WidthPx-d.InsetLeftPx-d.InsetRightPx > 0 && d.HeightPx-d.InsetTopPx-d.InsetBottomPx > 0 {
 		return nil
@@ -105,16 +109,16 @@ func (c *Camera) validateFields() error {
 		{"heading_deg", c.HeadingDeg, finite(c.HeadingDeg) && c.HeadingDeg >= 0 && c.HeadingDeg < 360, "heading must be within [0, 360)"},
 		{"pitch_deg", c.PitchDeg, finite(c.PitchDeg) && c.PitchDeg >= 0 && c.PitchDeg < 90, "pitch must be within [0, 90)"},
 		{"zoom", c.Zoom, finite(c.Zoom) && c.Zoom >= 0 && c.Zoom <= 30, "zoom must be within [0, 30]"},
-		{"device.width_px", d.WidthPx, finite(d.WidthPx) && d.WidthPx > 0, "width must be finite and positive"},
-		{"device.height_px", d.HeightPx, finite(d.HeightPx) && d.HeightPx > 0, "height must be finite and positive"},
+		{"device.width_px", d.WidthPx, d.WidthPx > 0 && d.WidthPx <= MaxScreenPx, "width must be positive and at most 100000"},
+		{"device.height_px", d.HeightPx, d.HeightPx > 0 && d.HeightPx <= MaxScreenPx, "height must be positive and at most 100000"},
 		{"device.fov_y_deg", d.FovYDeg, finite(d.FovYDeg) && d.FovYDeg > 0 && d.FovYDeg < 180, "vertical field of view must be within (0, 180)"},
 		{"device.tile_px", float64(d.TilePx), d.TilePx == 256 || d.TilePx == 512, "tile size must be 256 or 512"},
 		{"device.anchor_x", d.AnchorX, finite(d.AnchorX) && d.AnchorX >= 0 && d.AnchorX <= 1, "anchor must be a fraction of the width within [0, 1]"},
 		{"device.anchor_y", d.AnchorY, finite(d.AnchorY) && d.AnchorY >= 0 && d.AnchorY <= 1, "anchor must be a fraction of the height within [0, 1]"},
-		{"device.inset_top_px", d.InsetTopPx, finite(d.InsetTopPx) && d.InsetTopPx >= 0, "inset must be finite and non-negative"},
-		{"device.inset_right_px", d.InsetRightPx, finite(d.InsetRightPx) && d.InsetRightPx >= 0, "inset must be finite and non-negative"},
-		{"device.inset_bottom_px", d.InsetBottomPx, finite(d.InsetBottomPx) && d.InsetBottomPx >= 0, "inset must be finite and non-negative"},
-		{"device.inset_left_px", d.InsetLeftPx, finite(d.InsetLeftPx) && d.InsetLeftPx >= 0, "inset must be finite and non-negative"},
+		{"device.inset_top_px", d.InsetTopPx, d.InsetTopPx >= 0 && d.InsetTopPx <= MaxScreenPx, "inset must be within [0, 100000]"},
+		{"device.inset_right_px", d.InsetRightPx, d.InsetRightPx >= 0 && d.InsetRightPx <= MaxScreenPx, "inset must be within [0, 100000]"},
+		{"device.inset_bottom_px", d.InsetBottomPx, d.InsetBottomPx >= 0 && d.InsetBottomPx <= MaxScreenPx, "inset must be within [0, 100000]"},
+		{"device.inset_left_px", d.InsetLeftPx, d.InsetLeftPx >= 0 && d.InsetLeftPx <= MaxScreenPx, "inset must be within [0, 100000]"},
 		{"device.far_ratio", d.FarRatio, finite(d.FarRatio) && d.FarRatio > 1, "far ratio must be finite and greater than 1"},
 	}
 	for _, k := range checks {

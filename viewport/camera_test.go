@@ -44,6 +44,8 @@ func TestCameraValidate(t *testing.T) {
 		{"anchor_x 1.5", func(c *viewport.Camera) { c.Device.AnchorX = 1.5 }, "device.anchor_x", "1.5"},
 		{"inset NaN", func(c *viewport.Camera) { c.Device.InsetLeftPx = nan }, "device.inset_left_px", "NaN"},
 		{"inset negative", func(c *viewport.Camera) { c.Device.InsetTopPx = -1 }, "device.inset_top_px", "-1"},
+		{"width 1e308", func(c *viewport.Camera) { c.Device.WidthPx = 1e308 }, "device.width_px", "1e+308"},
+		{"height above the bound", func(c *viewport.Camera) { c.Device.HeightPx = 100001 }, "device.height_px", "100001"},
 		{"insets cover the width", func(c *viewport.Camera) { c.Device.InsetLeftPx, c.Device.InsetRightPx = 200, 190 },
 			"device.inset_left_px+inset_right_px", "390"},
 		{"insets cover the height", func(c *viewport.Camera) { c.Device.InsetTopPx, c.Device.InsetBottomPx = 500, 400 },

@@ -350,3 +350,13 @@ func (v *View) UnprojectMercator(px Pixel) (Mercator, bool) {
 	}
 	return v.mercatorOf(u, w), true
 }
+
+// HorizonRowPx returns the screen row (y, pixels, down) of the horizon:
+// cy − f·cot θ; rows at or above it see no ground. It returns false at
+// pitch 0, where the horizon is infinitely far above the screen.
+func (v *View) HorizonRowPx() (float64, bool) {
+	if v.sinP == 0 {
+		return 0, false
+	}
+	return v.cy - v.focal*v.cosP/v.sinP, true
+}

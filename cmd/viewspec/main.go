@@ -54,6 +54,7 @@ reference implementation and prints cameras in readable, JSON or GeoJSON form.`,
 		SilenceErrors: true,
 	}
 	root.AddCommand(newEvalCmd(), newFootprintCmd(), newProjectCmd(), newMetricsCmd(),
-		newRulesCmd(), newZoomCmd(), newTimelineCmd())
+		newRulesCmd(), newZoomCmd(), newTimelineCmd(),
+		newFixturesCmd(), newCheckCmd(), newRunCmd())
 	return root
 }
