@@ -39,12 +39,12 @@ type arc struct {
 // and safe for concurrent use.
 type Route struct {
 	pts    []orb.Point // distinct vertices, [lon, lat] degrees; len(segs)+1 of them
-	vecs   []r3.Vector // their unit vectors
-	preps  []ellPoint  // and prepared for the geodesic from their degrees (as any query point is)
+	preps  []ellPoint  // the vertices prepared for the geodesic from their degrees (as queries are)
 	segs   []segment
 	startM []float64 // along-route position of each vertex, metres; startM[len(segs)] = LengthM()
 	startS []float64 // travel time from the start to each vertex, seconds
-	tree   []node    // the spatial index; root at 0
+	tree   []node    // the spatial index's internal nodes
+	root   int32     // the root's code (see node)
 	items  []item    // the segments' arcs in the index's leaf order
 }
 
@@ -78,8 +78,8 @@ func prepVec(v r3.Vector, ll orb.Point) ellPoint {
 // Consecutive duplicate vertices are dropped together with the speed entry of the zero-length
 // segment between them (that entry is not looked at). A segment is zero-length when its WGS84
 // length is 0 (the same point, including longitudes −180 and 180 at one latitude, or any two
-// longitudes at a pole) or its ends round to the same unit vector (distinct inputs closer than
-// about 1e-9 m).
+// longitudes at a pole) or its ends are closer than the unit sphere resolves an arc between
+// them (distinct inputs about 1e-9 m apart or less).
 //
 // New returns an *InputError naming the first offending field: fewer than 2 points or fewer than 2
 // distinct vertices ("points"); a non-finite or out-of-range coordinate ("points[3].lat", latitude
@@ -111,7 +111,6 @@ func New(points []orb.Point, speedsMps []float64) (*Route, error) {
 	prevVec, _, _ := unitVec(points[0])
 	prevPrep := prepLatLon(points[0][1], points[0][0])
 	r.pts = append(r.pts, points[0])
-	r.vecs = append(r.vecs, prevVec)
 	r.preps = append(r.preps, prevPrep)
 	for j := 1; j < len(points); j++ {
 		v, _, _ := unitVec(points[j])
@@ -123,20 +122,24 @@ func New(points []orb.Point, speedsMps []float64) (*Route, error) {
 		speed := speedsMps[0]
 		if len(speedsMps) > 1 {
 			speed = speedsMps[j-1]
-			if err := checkSpeed(fmt.Sprintf("speed_mps[%d]", j-1), speed); err != nil {
-				return nil, err
-			}
 		}
-		sg, ok := makeSegment(prevVec, v, lengthM, speed, points[prevIdx], points[j])
-		if !ok {
+		sg, kind := makeSegment(prevVec, v, lengthM, speed, points[prevIdx], points[j])
+		if kind == segDegenerate {
+			continue // the ends differ but no arc is resolvable between them: zero-length
+		}
+		if kind == segAntipodal {
 			return nil, &InputError{Field: fmt.Sprintf("points[%d]", j),
 				Value: fmt.Sprintf("[%s, %s]", formatValue(points[j][0]), formatValue(points[j][1])),
 				Reason: fmt.Sprintf("less than 6 m from antipodal to points[%d] [%s, %s]: the great-circle arc between consecutive vertices is not determined",
 					prevIdx, formatValue(points[prevIdx][0]), formatValue(points[prevIdx][1]))}
 		}
+		if len(speedsMps) > 1 {
+			if err := checkSpeed(fmt.Sprintf("speed_mps[%d]", j-1), speed); err != nil {
+				return nil, err
+			}
+		}
 		r.segs = append(r.segs, sg)
 		r.pts = append(r.pts, points[j])
-		r.vecs = append(r.vecs, v)
 		r.preps = append(r.preps, pp)
 		prevIdx, prevVec, prevPrep = j, v, pp
 	}
@@ -151,7 +154,7 @@ func New(points []orb.Point, speedsMps []float64) (*Route, error) {
 		r.startM[i+1] = r.startM[i] + r.segs[i].lengthM
 		r.startS[i+1] = r.startS[i] + r.segs[i].lengthM/r.segs[i].speedMps
 	}
-	r.tree, r.items = buildTree(r.segs)
+	r.tree, r.root, r.items = buildTree(r.segs)
 	return r, nil
 }
 
@@ -165,15 +168,25 @@ func checkSpeed(field string, v float64) error {
 	return nil
 }
 
-// makeSegment precomputes one arc; ok is false when the ends are too near antipodal.
-func makeSegment(a, b r3.Vector, lengthM, speed float64, pa, pb orb.Point) (segment, bool) {
+// What makeSegment found.
+const (
+	segOK         = iota
+	segDegenerate // the ends are distinct but closer than an arc can be resolved (θ ≤ 0)
+	segAntipodal  // the ends are within maxArcRad of antipodal
+)
+
+// makeSegment precomputes one arc.
+func makeSegment(a, b r3.Vector, lengthM, speed float64, pa, pb orb.Point) (segment, int) {
 	// PointCross is accurate also for nearly parallel and nearly opposite vectors.
 	n := s2.Point{Vector: a}.PointCross(s2.Point{Vector: b}).Vector.Normalize()
 	t := n.Cross(a).Normalize()
 	cosT, sinT := b.Dot(a), b.Dot(t)
 	theta := math.Atan2(sinT, cosT)
-	if !(theta > 0) || theta > maxArcRad {
-		return segment{}, false
+	switch {
+	case !(theta > 0):
+		return segment{}, segDegenerate
+	case theta > maxArcRad:
+		return segment{}, segAntipodal
 	}
 	h := math.Hypot(cosT, sinT)
 	return segment{
@@ -182,7 +195,7 @@ func makeSegment(a, b r3.Vector, lengthM, speed float64, pa, pb orb.Point) (segm
 		lengthM:    lengthM,
 		speedMps:   speed,
 		headingDeg: mercatorHeadingDeg(pa, pb),
-	}, true
+	}, segOK
 }
 
 // mercatorClampLatDeg is the Web Mercator latitude limit, ±85.0511287798066° (SPEC §1).

@@ -74,6 +74,12 @@ func TestNewRefusesInvalidInput(t *testing.T) {
 	}
 }
 
+func TestInputErrorWithoutValue(t *testing.T) {
+	// Callers may report a field without a single value (a missing one, say).
+	err := &InputError{Field: "route", Reason: "missing"}
+	assert.EqualError(t, err, "route: missing")
+}
+
 func TestValidateLatLon(t *testing.T) {
 	assert.NoError(t, ValidateLatLon("user", orb.Point{180, -90}))
 	assert.NoError(t, ValidateLatLon("user", orb.Point{-180, 90}))
@@ -210,4 +216,21 @@ func TestHeadingAgainstRhumbSolve(t *testing.T) {
 		}
 	}
 	require.Equal(t, len(pairs), i, "RhumbSolve answered %d lines for %d pairs", i, len(pairs))
+}
+
+// TestNewNearlyCoincidentVertices: distinct vertices closer than the unit sphere resolves
+// (lon differing by 1e-13° down to 1e-17°, ~1e-8 m down to ~1e-12 m) are either kept as a tiny
+// segment or dropped as zero-length, never refused, and queries on them give finite answers.
+func TestNewNearlyCoincidentVertices(t *testing.T) {
+	for _, d := range []float64{1e-13, 1e-14, 1e-15, 1e-16, 1e-17} {
+		for _, base := range []orb.Point{{10, 50}, {-179.9, -89.99}, {0, 0}, {123.456, 12.5}} {
+			pts := []orb.Point{base, {base[0] + d, base[1]}, {base[0] + d, base[1] + 0.001}}
+			r, err := New(pts, []float64{10})
+			require.NoError(t, err, "New(%v)", pts)
+			m := r.Metrics(r.PlaceAt(0), orb.Point{base[0] + 0.0005, base[1] + 0.0005})
+			for _, v := range []float64{m.RouteDistM, m.AlongM, m.EtaS, m.CrossTrackM, r.LengthM()} {
+				require.False(t, math.IsNaN(v) || math.IsInf(v, 0), "non-finite answer on %v: %+v", pts, m)
+			}
+		}
+	}
 }
