@@ -353,10 +353,14 @@ func (v *View) UnprojectMercator(px Pixel) (Mercator, bool) {
 
 // HorizonRowPx returns the screen row (y, pixels, down) of the horizon:
 // cy − f·cot θ; rows at or above it see no ground. It returns false at
-// pitch 0, where the horizon is infinitely far above the screen.
+// pitch 0, where the horizon is infinitely far above the screen, and when
+// the row is farther than a float can say.
 func (v *View) HorizonRowPx() (float64, bool) {
-	if v.sinP == 0 {
+	row := v.cy - v.focal*v.cosP/v.sinP
+	if v.sinP == 0 || math.IsInf(row, 0) {
+		// At pitch 0, or so near it (below 1e-305°) that the row is beyond
+		// every float.
 		return 0, false
 	}
-	return v.cy - v.focal*v.cosP/v.sinP, true
+	return row, true
 }
