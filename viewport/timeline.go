@@ -38,6 +38,10 @@ type Drive struct {
 	// view and the indices of the markers shown (valid during the call
 	// only), for pictures and per-tick output.
 	OnTick func(tick int, v *View, shown []int)
+	// OnBand, when set, is called at every tick with the rule set's speed
+	// band at that tick (an index into Rules.Bands), for reports of how
+	// often the band changes.
+	OnBand func(tick, band int)
 }
 
 // NewDrive returns a drive on r from startAlongM with the defaults of SPEC
@@ -296,6 +300,9 @@ func (r *driveRun) run() ([]MarkerTimeline, error) {
 		r.tick(k, t, &v)
 		if d.OnTick != nil {
 			d.OnTick(k, &v, r.shown)
+		}
+		if d.OnBand != nil {
+			d.OnBand(k, st.Band())
 		}
 		r.prev = v
 	}

@@ -55,6 +55,6 @@ reference implementation and prints cameras in readable, JSON or GeoJSON form.`,
 	}
 	root.AddCommand(newEvalCmd(), newFootprintCmd(), newProjectCmd(), newMetricsCmd(),
 		newRulesCmd(), newZoomCmd(), newTimelineCmd(),
-		newFixturesCmd(), newCheckCmd(), newRunCmd(), newProbeCmd())
+		newFixturesCmd(), newCheckCmd(), newRunCmd(), newProbeCmd(), newRenderCmd(), newDemoCmd())
 	return root
 }

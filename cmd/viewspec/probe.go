@@ -93,7 +93,7 @@ same seed draws the same cases.`,
 
 // printFinding shows a minimal case, both answers and what differs.
 func printFinding(w io.Writer, f *props.Finding) {
-	fmt.Fprintf(w, "DISAGREEMENT in op %s (family %s), found after %d cases and shrunk:\n\n", f.Op, f.Family, f.Checks)
+	fmt.Fprintf(w, "DISAGREEMENT in op %s (family %s), found after %d case(s) and shrunk:\n\n", f.Op, f.Family, f.Checks)
 	fmt.Fprintf(w, "request:\n  %s\n", f.Case.Request)
 	fmt.Fprintf(w, "reference answers:\n  %s\n", f.Case.Expect)
 	if f.Err != "" {

@@ -14,7 +14,7 @@ func newRulesCmd() *cobra.Command {
 		Use:   "rules",
 		Short: "Check speed-driven zoom and pitch rule sets",
 	}
-	cmd.AddCommand(newRulesLintCmd())
+	cmd.AddCommand(newRulesLintCmd(), newRulesDiffCmd())
 	return cmd
 }
 

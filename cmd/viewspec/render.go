@@ -1,0 +1,195 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+
+	"github.com/paulmach/orb"
+	"github.com/spf13/cobra"
+
+	"github.com/viewspec/viewspec/fixtures"
+	"github.com/viewspec/viewspec/render"
+	"github.com/viewspec/viewspec/viewport"
+)
+
+func newRenderCmd() *cobra.Command {
+	cmd := &cobra.Command{
+		Use:   "render",
+		Short: "Draw what the screen sees: one camera as an SVG picture, a drive as an HTML page",
+		Long: `render draws plan views, north up, in metres around the user: a camera's
+footprint with the route, the markers and a scale bar (render camera), or a
+whole drive with a time slider, zoom and pitch over time and each marker's
+bucket (render drive). The pictures need nothing from the network.`,
+		SilenceUsage:  true,
+		SilenceErrors: true,
+	}
+	cmd.AddCommand(newRenderCameraCmd(), newRenderDriveCmd())
+	return cmd
+}
+
+// writeOutput writes data to the file name atomically, or to the command's
+// output when name is empty.
+func writeOutput(cmd *cobra.Command, name string, data []byte) error {
+	if name == "" {
+		_, err := cmd.OutOrStdout().Write(data)
+		return err
+	}
+	return fixtures.WriteFileAtomic(name, func(w io.Writer) error {
+		_, err := w.Write(data)
+		return err
+	})
+}
+
+// readRoutePoints reads a route file's vertices ([lon, lat] degrees) for a
+// picture; speeds are not needed.
+func readRoutePoints(name string) ([]orb.Point, error) {
+	data, err := os.ReadFile(name)
+	if err != nil {
+		return nil, &exitError{2, err}
+	}
+	f, err := fixtures.ReadRoute(name, data)
+	if err != nil {
+		return nil, &exitError{2, err}
+	}
+	return f.Points, nil
+}
+
+func newRenderCameraCmd() *cobra.Command {
+	var cf cameraFlags
+	var routeFile, markersFile, outFile string
+	var spanM float64
+	cmd := &cobra.Command{
+		Use:   "camera",
+		Short: "Draw one camera seen from above as SVG: footprint, route, markers, scale bar",
+		Long: `camera draws the camera (flags, or --camera FILE with flags overriding it)
+seen from above, north up, in metres around the user: the footprint, the
+route (--route, speeds not needed), the markers (--markers) filled when the
+camera has them in view and hollow when not, the user's arrow on the
+heading, a north arrow, a scale bar of a round length and a legend. The
+picture fits the footprint unless --span-m fixes the scale.`,
+		Example: `  viewspec render camera -o camera.svg
+  viewspec render camera --camera cam.json --route drive.geojson --markers shops.csv --pitch 60 -o camera.svg`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error {
+			v, err := cf.view(cmd)
+			if err != nil {
+				return err
+			}
+			var route []orb.Point
+			if routeFile != "" {
+				if route, err = readRoutePoints(routeFile); err != nil {
+					return err
+				}
+			}
+			var ms []viewport.Marker
+			if markersFile != "" {
+				if ms, err = readMarkersFile(markersFile); err != nil {
+					return err
+				}
+			}
+			svg, err := render.CameraSVG(&v, route, ms, nil, render.WithSpanM(spanM))
+			if err != nil {
+				return &exitError{2, err}
+			}
+			return writeOutput(cmd, outFile, svg)
+		},
+	}
+	cf.register(cmd)
+	cmd.Flags().StringVar(&routeFile, "route", "", "route `FILE` to draw: GeoJSON LineString or Feature, or GPX 1.1")
+	cmd.Flags().StringVar(&markersFile, "markers", "", "markers `FILE` to draw: CSV id,lat,lon[,priority] or GeoJSON points")
+	cmd.Flags().Float64Var(&spanM, "span-m", 0, "ground metres across the map's shorter side, centred on the user (default: fit the footprint)")
+	cmd.Flags().StringVarP(&outFile, "output", "o", "", "write the SVG to `FILE` (default: stdout)")
+	return cmd
+}
+
+func newRenderDriveCmd() *cobra.Command {
+	var rf routeFlags
+	var markersFile, rulesFile, rules2File, deviceFile, userArg, outFile, title string
+	var startAlongM, horizonS, tickS, spanM float64
+	var capN int
+	var edges []float64
+	cmd := &cobra.Command{
+		Use:   "drive",
+		Short: "Draw a drive as a self-contained HTML page with a time slider",
+		Long: `drive runs the drive timeline (as viewspec timeline does) and writes an HTML
+page that needs no network: a map of the route and the markers coloured by
+bucket, a slider that moves the user and the footprint tick by tick and
+highlights the markers shown, zoom and pitch over time, and a table of each
+marker's first visible and first shown times, shown seconds and bucket.
+--rules2 adds a second rule set on the same route and markers: its zoom and
+pitch are plotted beside the first's and its buckets listed beside them.`,
+		Example: `  viewspec render drive --route drive.geojson --markers shops.csv --rules fixtures/rules/phone.yaml -o drive.html
+  viewspec render drive --route drive.gpx --speed-mps 14 --markers shops.csv --rules phone.yaml --rules2 incar.yaml --device car.json -o compare.html`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error {
+			r, _, err := rf.load(cmd)
+			if err != nil {
+				return err
+			}
+			ms, err := readMarkersFile(markersFile)
+			if err != nil {
+				return err
+			}
+			rs, err := readRules(rulesFile)
+			if err != nil {
+				return err
+			}
+			dev, err := readDevice(deviceFile)
+			if err != nil {
+				return err
+			}
+			start := startAlongM
+			if userArg != "" {
+				if cmd.Flags().Changed("start-along-m") {
+					return &exitError{2, fmt.Errorf("give --user or --start-along-m, not both")}
+				}
+				u, err := parseLatLon(userArg)
+				if err != nil {
+					return &exitError{2, fmt.Errorf("--user %v", err)}
+				}
+				start = r.Snap(u).AlongM
+			}
+			if len(edges) != 2 {
+				return &exitError{2, fmt.Errorf("--bucket-edges-s wants 2 values, got %d", len(edges))}
+			}
+			d := viewport.NewDrive(r, start, dev, rs)
+			d.HorizonS, d.TickS, d.Cap = horizonS, tickS, capN
+			d.BucketEdgesS = [2]float64{edges[0], edges[1]}
+			opts := []render.Option{render.WithRulesName(filepath.Base(rulesFile)), render.WithSpanM(spanM)}
+			if title != "" {
+				opts = append(opts, render.WithTitle(title))
+			}
+			if rules2File != "" {
+				rs2, err := readRules(rules2File)
+				if err != nil {
+					return err
+				}
+				d2 := d
+				d2.Rules = rs2
+				opts = append(opts, render.WithCompare(filepath.Base(rules2File), &d2))
+			}
+			page, err := render.DriveHTML(&d, ms, opts...)
+			if err != nil {
+				return &exitError{2, err}
+			}
+			return writeOutput(cmd, outFile, page)
+		},
+	}
+	rf.register(cmd)
+	cmd.Flags().StringVar(&markersFile, "markers", "", "markers `FILE`: CSV id,lat,lon[,priority] or GeoJSON points")
+	cmd.Flags().StringVar(&rulesFile, "rules", "", "rule `FILE` (YAML or JSON)")
+	cmd.Flags().StringVar(&rules2File, "rules2", "", "a second rule `FILE` to compare with the first")
+	cmd.Flags().StringVar(&deviceFile, "device", "", "device `FILE` (JSON object, SPEC §2); default: a phone, 390×844 px")
+	cmd.Flags().StringVar(&userArg, "user", "", "start where `LAT,LON` snaps to the route")
+	cmd.Flags().Float64Var(&startAlongM, "start-along-m", 0, "start this many metres along the route")
+	cmd.Flags().Float64Var(&horizonS, "horizon-s", 120, "how long to drive, seconds")
+	cmd.Flags().Float64Var(&tickS, "tick-s", 0.25, "time step, seconds (must divide the horizon)")
+	cmd.Flags().IntVar(&capN, "cap", 4, "markers shown at once")
+	cmd.Flags().Float64SliceVar(&edges, "bucket-edges-s", []float64{5, 35}, "bucket edges early|mid and mid|late, seconds")
+	cmd.Flags().Float64Var(&spanM, "span-m", 0, "ground metres across the map's shorter side, centred on the start (default: fit the drive)")
+	cmd.Flags().StringVar(&title, "title", "", "the page's title (default: made from the drive)")
+	cmd.Flags().StringVarP(&outFile, "output", "o", "", "write the page to `FILE` (default: stdout)")
+	return cmd
+}

@@ -1,0 +1,96 @@
+package render
+
+import (
+	"errors"
+	"fmt"
+
+	"github.com/paulmach/orb"
+
+	"github.com/viewspec/viewspec/viewport"
+)
+
+// MaxRecordedTicks bounds the ticks RecordDrive keeps (HorizonS/TickS + 1):
+// a page carries every tick, so a longer drive needs a coarser tick.
+const MaxRecordedTicks = 200001
+
+// TickFrame is the drive at one tick, as the timeline saw it.
+type TickFrame struct {
+	// TS is the tick's time, k·tick seconds.
+	TS float64
+	// User is the user's position, [lon, lat] degrees.
+	User orb.Point
+	// HeadingDeg, PitchDeg and Zoom are the camera's (degrees clockwise from
+	// north; degrees from straight down; zoom level).
+	HeadingDeg, PitchDeg, Zoom float64
+	// Footprint is the view's footprint (SPEC §2).
+	Footprint viewport.Footprint
+	// UserMercator is the user's Mercator point, metres.
+	UserMercator viewport.Mercator
+	// Shown holds the ids of the markers shown, in slot order.
+	Shown []string
+}
+
+// Recording is a drive recorded tick by tick: what RecordDrive saw through
+// viewport.Drive.OnTick, and the timeline's answer.
+type Recording struct {
+	TickS, HorizonS float64
+	Cap             int
+	// Markers are the markers as given.
+	Markers []viewport.Marker
+	// Ticks holds ticks 0 … HorizonS/TickS.
+	Ticks []TickFrame
+	// Timeline is viewport.Timeline's answer, one per marker in order.
+	Timeline []viewport.MarkerTimeline
+}
+
+// Buckets returns each marker's bucket by id.
+func (r *Recording) Buckets() map[string]viewport.Bucket {
+	out := make(map[string]viewport.Bucket, len(r.Markers))
+	for i, m := range r.Markers {
+		out[m.ID] = r.Timeline[i].Bucket
+	}
+	return out
+}
+
+// RecordDrive runs viewport.Timeline on d and markers and records every
+// tick: the user's place, the camera's heading, zoom and pitch, the
+// footprint and the ids of the markers shown. d is not changed (a copy gets
+// the recording hook, which calls d.OnTick too when it is set). Errors are
+// the timeline's, or a drive of more than MaxRecordedTicks ticks.
+func RecordDrive(d *viewport.Drive, markers []viewport.Marker) (Recording, error) {
+	if d == nil {
+		return Recording{}, errors.New("render: no drive")
+	}
+	if err := d.Validate(); err != nil {
+		return Recording{}, err
+	}
+	n := d.Ticks() + 1
+	if n > MaxRecordedTicks {
+		return Recording{}, fmt.Errorf("render: %d ticks (horizon_s %g / tick_s %g): a recording keeps at most %d; use a larger tick",
+			n, d.HorizonS, d.TickS, MaxRecordedTicks)
+	}
+	rec := Recording{TickS: d.TickS, HorizonS: d.HorizonS, Cap: d.Cap, Markers: markers, Ticks: make([]TickFrame, 0, n)}
+	run := *d
+	outer := d.OnTick
+	run.OnTick = func(k int, v *viewport.View, shown []int) {
+		cam := v.Camera()
+		ids := make([]string, len(shown))
+		for j, i := range shown {
+			ids[j] = markers[i].ID
+		}
+		rec.Ticks = append(rec.Ticks, TickFrame{
+			TS: float64(k) * d.TickS, User: cam.User(),
+			HeadingDeg: cam.HeadingDeg, PitchDeg: cam.PitchDeg, Zoom: cam.Zoom,
+			Footprint: v.Footprint(), UserMercator: v.UserMercator(), Shown: ids,
+		})
+		if outer != nil {
+			outer(k, v, shown)
+		}
+	}
+	res, err := viewport.Timeline(&run, markers)
+	if err != nil {
+		return Recording{}, err
+	}
+	rec.Timeline = res
+	return rec, nil
+}
