@@ -227,9 +227,19 @@ func (s ScreenPoint) InView() bool { return s.MarginPx >= 0 }
 // Pixel returns the point's pixel.
 func (s ScreenPoint) Pixel() Pixel { return Pixel{s.X, s.Y} }
 
-// Project returns the screen point of p ([lon, lat] degrees).
+// Project returns the screen point of p ([lon, lat] degrees). It is
+// ProjectMercator(ToMercator(p)), written out so that the Mercator
+// conversion's logarithm is nearly all it costs.
 func (v *View) Project(p orb.Point) ScreenPoint {
-	return v.ProjectMercator(ToMercator(p))
+	lat := p[1]
+	if lat > MaxLatDeg {
+		lat = MaxLatDeg
+	} else if lat < -MaxLatDeg {
+		lat = -MaxLatDeg
+	}
+	x := p[0] * (worldWidthM / 360)
+	y := EarthRadiusM * math.Log(math.Tan(math.Pi/4+lat*(math.Pi/360)))
+	return v.ProjectMercator(Mercator{x, y})
 }
 
 // ProjectMercator returns the screen point of the Mercator point m.
