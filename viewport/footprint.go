@@ -90,19 +90,6 @@ func (v *View) trapezoid() (uv [4][2]float64, near, far float64, ok bool) {
 	return uv, near, far, true
 }
 
-// footprintMercator returns the footprint's vertices in the Mercator plane
-// (X unwrapped, so they may pass ±πR), and false when it is empty.
-func (v *View) footprintMercator() (verts [4]Mercator, ok bool) {
-	uv, _, _, ok := v.trapezoid()
-	if !ok {
-		return verts, false
-	}
-	for i, q := range uv {
-		verts[i] = v.mercatorOf(q[0], q[1])
-	}
-	return verts, true
-}
-
 // GroundDistM returns the ground distance in metres from the Mercator point
 // m to the footprint fp of this view: 0 inside or on the boundary,
 // else the Mercator distance to the nearest edge scaled by cos φ_U. It

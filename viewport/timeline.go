@@ -273,12 +273,13 @@ func (r *driveRun) run() ([]MarkerTimeline, error) {
 	for k := 0; k <= n; k++ {
 		t := float64(k) * d.TickS
 		along := rt.AlongAfterS(d.StartAlongM, t)
-		speed := rt.SpeedMpsAt(along)
+		seg := rt.Segment(rt.SegmentAt(along)) // the current segment, found once
+		speed := seg.SpeedMps
 		if along >= lengthM {
 			speed = 0 // stopped at the route's end
 		}
 		turnDist, hasTurn := routes.NextTurnDistM(r.turns, along)
-		target := rt.HeadingDegAt(along)
+		target := seg.HeadingDeg
 		if k == 0 {
 			var err error
 			if st, err = d.Rules.Start(speed, turnDist, hasTurn); err != nil {
@@ -452,7 +453,15 @@ func (r *driveRun) tick(k int, t float64, v *View) {
 // bounding box (all of them when the view wraps round the world).
 func (r *driveRun) seeIndexed(k int32, v *View) {
 	r.unsure = r.unsure[:0]
-	verts, ok := v.footprintMercator()
+	// The trapezoid once: its Mercator vertices for the safe distances and
+	// the bounding box, and its rows for the quick test.
+	uv, _, _, ok := v.trapezoid()
+	var verts [4]Mercator
+	if ok {
+		for i, q := range uv {
+			verts[i] = v.mercatorOf(q[0], q[1])
+		}
+	}
 	if !ok || v.wrapped || !r.prevOK {
 		// A new epoch: no earlier safe distance holds.
 		r.epoch++
@@ -477,7 +486,7 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 	if !ok {
 		return
 	}
-	q := v.quick()
+	q := v.quickOf(&uv)
 	minX, minY, maxX, maxY := verts[0].X, verts[0].Y, verts[0].X, verts[0].Y
 	for _, p := range verts[1:] {
 		minX, maxX = min(minX, p.X), max(maxX, p.X)

@@ -291,6 +291,11 @@ func (v *View) quick() quickTest {
 	if !ok {
 		return quickTest{empty: true}
 	}
+	return v.quickOf(&uv)
+}
+
+// quickOf is quick for the view's trapezoid uv, already computed.
+func (v *View) quickOf(uv *[4][2]float64) quickTest {
 	vNear, vFar := uv[0][1], uv[3][1]
 	return quickTest{
 		tx: v.target.X, ty: v.target.Y, sCosH: v.sCosH, sSinH: v.sSinH,
