@@ -73,7 +73,7 @@ func (c *Camera) checkAnchor(f, sinP, cosP float64) error {
 	b := d.HeightPx/2 - d.AnchorY*d.HeightPx
 	if f*cosP-b*sinP <= 0 {
 		return &FieldError{Field: "device.anchor_y", Value: d.AnchorY,
-			Reason: "the anchor pixel is at or above the horizon at pitch " + formatValue(c.PitchDeg) + "°"}
+			Reason: "the anchor pixel is at or above the horizon at pitch " + FormatNumber(c.PitchDeg) + "°"}
 	}
 	return nil
 }
@@ -128,8 +128,8 @@ func (c *Camera) validateFields() error {
 	}
 	if w := d.WidthPx - d.InsetLeftPx - d.InsetRightPx; !(w > 0) {
 		return &FieldError{Field: "device.inset_left_px+inset_right_px", Value: d.InsetLeftPx + d.InsetRightPx,
-			Reason: "insets leave no clear area (they must sum to less than width_px " + formatValue(d.WidthPx) + ")"}
+			Reason: "insets leave no clear area (they must sum to less than width_px " + FormatNumber(d.WidthPx) + ")"}
 	}
 	return &FieldError{Field: "device.inset_top_px+inset_bottom_px", Value: d.InsetTopPx + d.InsetBottomPx,
-		Reason: "insets leave no clear area (they must sum to less than height_px " + formatValue(d.HeightPx) + ")"}
+		Reason: "insets leave no clear area (they must sum to less than height_px " + FormatNumber(d.HeightPx) + ")"}
 }

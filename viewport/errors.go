@@ -15,12 +15,13 @@ type FieldError struct {
 }
 
 func (e *FieldError) Error() string {
-	return fmt.Sprintf("%s = %s: %s", e.Field, formatValue(e.Value), e.Reason)
+	return fmt.Sprintf("%s = %s: %s", e.Field, FormatNumber(e.Value), e.Reason)
 }
 
-// formatValue prints v with as many digits as it needs to round-trip, and
-// names NaN and the infinities the way a reader of JSON would expect.
-func formatValue(v float64) string {
+// FormatNumber prints v as error messages and the wire show numbers: the
+// fewest digits that read back to the same double, and NaN, +Inf, -Inf by
+// name.
+func FormatNumber(v float64) string {
 	switch {
 	case math.IsNaN(v):
 		return "NaN"

@@ -70,7 +70,7 @@ func (d *Drive) Validate() error {
 	}
 	if n := d.HorizonS / d.TickS; math.Abs(n-math.Round(n)) > 1e-9 || n > 1e7 {
 		return &FieldError{Field: "tick_s", Value: d.TickS,
-			Reason: fmt.Sprintf("tick must divide the horizon %s s within 1e-9 (and give at most 1e7 ticks)", formatValue(d.HorizonS))}
+			Reason: fmt.Sprintf("tick must divide the horizon %s s within 1e-9 (and give at most 1e7 ticks)", FormatNumber(d.HorizonS))}
 	}
 	if d.Cap < 1 {
 		return &FieldError{Field: "cap", Value: float64(d.Cap), Reason: "cap must be at least 1"}
@@ -82,10 +82,10 @@ func (d *Drive) Validate() error {
 	case !(e2 > e1) || math.IsInf(e2, 0):
 		return &FieldError{Field: "bucket_edges_s[1]", Value: e2, Reason: "bucket edges must increase"}
 	case e2 > d.HorizonS:
-		return &FieldError{Field: "bucket_edges_s[1]", Value: e2, Reason: "bucket edge beyond the horizon " + formatValue(d.HorizonS) + " s"}
+		return &FieldError{Field: "bucket_edges_s[1]", Value: e2, Reason: "bucket edge beyond the horizon " + FormatNumber(d.HorizonS) + " s"}
 	case !(d.StartAlongM >= 0 && d.StartAlongM <= d.Route.LengthM()):
 		return &FieldError{Field: "start_along_m", Value: d.StartAlongM,
-			Reason: "start must be on the route, within [0, " + formatValue(d.Route.LengthM()) + "] m"}
+			Reason: "start must be on the route, within [0, " + FormatNumber(d.Route.LengthM()) + "] m"}
 	}
 	if err := d.Rules.Validate(); err != nil {
 		return err
@@ -296,7 +296,7 @@ func (r *driveRun) run() ([]MarkerTimeline, error) {
 		cam.LatDeg, cam.LonDeg = pos[1], pos[0]
 		cam.HeadingDeg, cam.PitchDeg, cam.Zoom = heading, st.PitchDeg(), st.Zoom()
 		if err := v.place(&cam); err != nil {
-			return nil, fmt.Errorf("at t = %s s: %w", formatValue(t), err)
+			return nil, fmt.Errorf("at t = %s s: %w", FormatNumber(t), err)
 		}
 		r.tick(k, t, &v)
 		if d.OnTick != nil {

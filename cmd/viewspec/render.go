@@ -1,7 +1,6 @@
 package main
 
 import (
-	"fmt"
 	"io"
 	"os"
 	"path/filepath"
@@ -105,11 +104,9 @@ picture fits the footprint unless --span-m fixes the scale.`,
 }
 
 func newRenderDriveCmd() *cobra.Command {
-	var rf routeFlags
-	var markersFile, rulesFile, rules2File, deviceFile, userArg, outFile, title string
-	var startAlongM, horizonS, tickS, spanM float64
-	var capN int
-	var edges []float64
+	var df driveFlags
+	var rules2File, outFile, title string
+	var spanM float64
 	cmd := &cobra.Command{
 		Use:   "drive",
 		Short: "Draw a drive as a self-contained HTML page with a time slider",
@@ -124,40 +121,11 @@ pitch are plotted beside the first's and its buckets listed beside them.`,
   viewspec render drive --route drive.gpx --speed-mps 14 --markers shops.csv --rules phone.yaml --rules2 incar.yaml --device car.json -o compare.html`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
-			r, _, err := rf.load(cmd)
+			d, ms, err := df.load(cmd)
 			if err != nil {
 				return err
 			}
-			ms, err := readMarkersFile(markersFile)
-			if err != nil {
-				return err
-			}
-			rs, err := readRules(rulesFile)
-			if err != nil {
-				return err
-			}
-			dev, err := readDevice(deviceFile)
-			if err != nil {
-				return err
-			}
-			start := startAlongM
-			if userArg != "" {
-				if cmd.Flags().Changed("start-along-m") {
-					return &exitError{2, fmt.Errorf("give --user or --start-along-m, not both")}
-				}
-				u, err := parseLatLon(userArg)
-				if err != nil {
-					return &exitError{2, fmt.Errorf("--user %v", err)}
-				}
-				start = r.Snap(u).AlongM
-			}
-			if len(edges) != 2 {
-				return &exitError{2, fmt.Errorf("--bucket-edges-s wants 2 values, got %d", len(edges))}
-			}
-			d := viewport.NewDrive(r, start, dev, rs)
-			d.HorizonS, d.TickS, d.Cap = horizonS, tickS, capN
-			d.BucketEdgesS = [2]float64{edges[0], edges[1]}
-			opts := []render.Option{render.WithRulesName(filepath.Base(rulesFile)), render.WithSpanM(spanM)}
+			opts := []render.Option{render.WithRulesName(filepath.Base(df.rulesFile)), render.WithSpanM(spanM)}
 			if title != "" {
 				opts = append(opts, render.WithTitle(title))
 			}
@@ -177,17 +145,8 @@ pitch are plotted beside the first's and its buckets listed beside them.`,
 			return writeOutput(cmd, outFile, page)
 		},
 	}
-	rf.register(cmd)
-	cmd.Flags().StringVar(&markersFile, "markers", "", "markers `FILE`: CSV id,lat,lon[,priority] or GeoJSON points")
-	cmd.Flags().StringVar(&rulesFile, "rules", "", "rule `FILE` (YAML or JSON)")
+	df.register(cmd)
 	cmd.Flags().StringVar(&rules2File, "rules2", "", "a second rule `FILE` to compare with the first")
-	cmd.Flags().StringVar(&deviceFile, "device", "", "device `FILE` (JSON object, SPEC §2); default: a phone, 390×844 px")
-	cmd.Flags().StringVar(&userArg, "user", "", "start where `LAT,LON` snaps to the route")
-	cmd.Flags().Float64Var(&startAlongM, "start-along-m", 0, "start this many metres along the route")
-	cmd.Flags().Float64Var(&horizonS, "horizon-s", 120, "how long to drive, seconds")
-	cmd.Flags().Float64Var(&tickS, "tick-s", 0.25, "time step, seconds (must divide the horizon)")
-	cmd.Flags().IntVar(&capN, "cap", 4, "markers shown at once")
-	cmd.Flags().Float64SliceVar(&edges, "bucket-edges-s", []float64{5, 35}, "bucket edges early|mid and mid|late, seconds")
 	cmd.Flags().Float64Var(&spanM, "span-m", 0, "ground metres across the map's shorter side, centred on the start (default: fit the drive)")
 	cmd.Flags().StringVar(&title, "title", "", "the page's title (default: made from the drive)")
 	cmd.Flags().StringVarP(&outFile, "output", "o", "", "write the page to `FILE` (default: stdout)")

@@ -37,12 +37,73 @@ func readDevice(name string) (viewport.Device, error) {
 	return d, nil
 }
 
+// driveFlags are a drive's inputs on the command line (SPEC §5): the route,
+// markers, rules and device files, where to start, and the timeline's
+// horizon, tick, cap and bucket edges.
+type driveFlags struct {
+	rf                                          routeFlags
+	markersFile, rulesFile, deviceFile, userArg string
+	startAlongM, horizonS, tickS                float64
+	capN                                        int
+	edges                                       []float64
+}
+
+func (df *driveFlags) register(cmd *cobra.Command) {
+	df.rf.register(cmd)
+	f := cmd.Flags()
+	f.StringVar(&df.markersFile, "markers", "", "markers `FILE`: CSV id,lat,lon[,priority] or GeoJSON points")
+	f.StringVar(&df.rulesFile, "rules", "", "rule `FILE` (YAML or JSON)")
+	f.StringVar(&df.deviceFile, "device", "", "device `FILE` (JSON object, SPEC §2); default: a phone, 390×844 px")
+	f.StringVar(&df.userArg, "user", "", "start where `LAT,LON` snaps to the route")
+	f.Float64Var(&df.startAlongM, "start-along-m", 0, "start this many metres along the route")
+	f.Float64Var(&df.horizonS, "horizon-s", 120, "how long to drive, seconds")
+	f.Float64Var(&df.tickS, "tick-s", 0.25, "time step, seconds (must divide the horizon)")
+	f.IntVar(&df.capN, "cap", 4, "markers shown at once")
+	f.Float64SliceVar(&df.edges, "bucket-edges-s", []float64{5, 35}, "bucket edges early|mid and mid|late, seconds")
+}
+
+// load reads the files and returns the drive and its markers; input errors
+// exit with code 2.
+func (df *driveFlags) load(cmd *cobra.Command) (viewport.Drive, []viewport.Marker, error) {
+	var d viewport.Drive
+	r, _, err := df.rf.load(cmd)
+	if err != nil {
+		return d, nil, err
+	}
+	ms, err := readMarkersFile(df.markersFile)
+	if err != nil {
+		return d, nil, err
+	}
+	rs, err := readRules(df.rulesFile)
+	if err != nil {
+		return d, nil, err
+	}
+	dev, err := readDevice(df.deviceFile)
+	if err != nil {
+		return d, nil, err
+	}
+	start := df.startAlongM
+	if df.userArg != "" {
+		if cmd.Flags().Changed("start-along-m") {
+			return d, nil, &exitError{2, fmt.Errorf("give --user or --start-along-m, not both")}
+		}
+		u, err := parseLatLon(df.userArg)
+		if err != nil {
+			return d, nil, &exitError{2, fmt.Errorf("--user %v", err)}
+		}
+		start = r.Snap(u).AlongM
+	}
+	if len(df.edges) != 2 {
+		return d, nil, &exitError{2, fmt.Errorf("--bucket-edges-s wants 2 values, got %d", len(df.edges))}
+	}
+	d = viewport.NewDrive(r, start, dev, rs)
+	d.HorizonS, d.TickS, d.Cap = df.horizonS, df.tickS, df.capN
+	d.BucketEdgesS = [2]float64{df.edges[0], df.edges[1]}
+	return d, ms, nil
+}
+
 func newTimelineCmd() *cobra.Command {
-	var rf routeFlags
-	var markersFile, rulesFile, deviceFile, userArg string
-	var startAlongM, horizonS, tickS float64
-	var capN int
-	var edges []float64
+	var df driveFlags
 	var asJSON, asCSV bool
 	cmd := &cobra.Command{
 		Use:   "timeline",
@@ -59,39 +120,10 @@ early, mid or late (by --bucket-edges-s) or never (SPEC §5).`,
   viewspec timeline --route drive.gpx --speed-mps 14 --markers shops.geojson --rules incar.yaml --device car.json --csv`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
-			r, _, err := rf.load(cmd)
+			d, ms, err := df.load(cmd)
 			if err != nil {
 				return err
 			}
-			ms, err := readMarkersFile(markersFile)
-			if err != nil {
-				return err
-			}
-			rs, err := readRules(rulesFile)
-			if err != nil {
-				return err
-			}
-			dev, err := readDevice(deviceFile)
-			if err != nil {
-				return err
-			}
-			start := startAlongM
-			if userArg != "" {
-				if cmd.Flags().Changed("start-along-m") {
-					return &exitError{2, fmt.Errorf("give --user or --start-along-m, not both")}
-				}
-				u, err := parseLatLon(userArg)
-				if err != nil {
-					return &exitError{2, fmt.Errorf("--user %v", err)}
-				}
-				start = r.Snap(u).AlongM
-			}
-			d := viewport.NewDrive(r, start, dev, rs)
-			d.HorizonS, d.TickS, d.Cap = horizonS, tickS, capN
-			if len(edges) != 2 {
-				return &exitError{2, fmt.Errorf("--bucket-edges-s wants 2 values, got %d", len(edges))}
-			}
-			d.BucketEdgesS = [2]float64{edges[0], edges[1]}
 			got, err := viewport.Timeline(&d, ms)
 			if err != nil {
 				return &exitError{2, err}
@@ -107,16 +139,7 @@ early, mid or late (by --bucket-edges-s) or never (SPEC §5).`,
 			return printTimeline(out, &d, lines)
 		},
 	}
-	rf.register(cmd)
-	cmd.Flags().StringVar(&markersFile, "markers", "", "markers `FILE`: CSV id,lat,lon[,priority] or GeoJSON points")
-	cmd.Flags().StringVar(&rulesFile, "rules", "", "rule `FILE` (YAML or JSON)")
-	cmd.Flags().StringVar(&deviceFile, "device", "", "device `FILE` (JSON object, SPEC §2); default: a phone, 390×844 px")
-	cmd.Flags().StringVar(&userArg, "user", "", "start where `LAT,LON` snaps to the route")
-	cmd.Flags().Float64Var(&startAlongM, "start-along-m", 0, "start this many metres along the route")
-	cmd.Flags().Float64Var(&horizonS, "horizon-s", 120, "how long to drive, seconds")
-	cmd.Flags().Float64Var(&tickS, "tick-s", 0.25, "time step, seconds (must divide the horizon)")
-	cmd.Flags().IntVar(&capN, "cap", 4, "markers shown at once")
-	cmd.Flags().Float64SliceVar(&edges, "bucket-edges-s", []float64{5, 35}, "bucket edges early|mid and mid|late, seconds")
+	df.register(cmd)
 	cmd.Flags().BoolVar(&asJSON, "json", false, "print the wire answer (SPEC §6) as JSON")
 	cmd.Flags().BoolVar(&asCSV, "csv", false, "print CSV with a header line")
 	cmd.MarkFlagsMutuallyExclusive("json", "csv")
