@@ -8,8 +8,6 @@ import (
 	"github.com/viewspec/viewspec/viewport"
 )
 
-// worldWidthM is the width of the Mercator world, 2πR metres.
-const worldWidthM = 2 * math.Pi * viewport.EarthRadiusM
 
 // Frame is the affine map from the Mercator plane to picture units, north
 // up, around the user:
@@ -34,25 +32,12 @@ type Frame struct {
 // Point returns the picture position (x right, y down, picture units) of
 // the Mercator point m.
 func (f Frame) Point(m viewport.Mercator) (x, y float64) {
-	return f.OriginX + shortDX(m.X-f.Center.X)*f.UnitsPerM, f.OriginY - (m.Y-f.Center.Y)*f.UnitsPerM
+	return f.OriginX + viewport.ShortDXM(m.X-f.Center.X)*f.UnitsPerM, f.OriginY - (m.Y-f.Center.Y)*f.UnitsPerM
 }
 
 // UnitsPerGroundM returns the scale in picture units per ground metre:
 // UnitsPerM / GroundScale.
 func (f Frame) UnitsPerGroundM() float64 { return f.UnitsPerM / f.GroundScale }
-
-// shortDX returns the Mercator X difference dx the short way round the
-// world, in [−πR, πR).
-func shortDX(dx float64) float64 {
-	if dx >= -worldWidthM/2 && dx < worldWidthM/2 {
-		return dx
-	}
-	dx = math.Mod(dx+worldWidthM/2, worldWidthM)
-	if dx < 0 {
-		dx += worldWidthM
-	}
-	return dx - worldWidthM/2
-}
 
 // errWrapped is the answer for views that show ground more than once.
 var errWrapped = errors.New("render: the view wraps round the world (zoom too low for a local picture)")
@@ -77,7 +62,7 @@ func fitFrame(center viewport.Mercator, groundScale float64, pts []viewport.Merc
 	// The box in ground metres east and north of the centre.
 	minE, maxE, minN, maxN := 0.0, 0.0, 0.0, 0.0
 	for _, p := range pts {
-		e, n := shortDX(p.X-center.X)*groundScale, (p.Y-center.Y)*groundScale
+		e, n := viewport.ShortDXM(p.X-center.X)*groundScale, (p.Y-center.Y)*groundScale
 		minE, maxE = min(minE, e), max(maxE, e)
 		minN, maxN = min(minN, n), max(maxN, n)
 	}

@@ -64,17 +64,17 @@ func wrapLonDeg(lon float64) float64 {
 	return lon - 180
 }
 
-// shortDX returns the Mercator X difference dx taken the short way round
+// ShortDXM returns the Mercator X difference dx (metres) taken the short way round
 // the world, in [−πR, πR). It is exact (dx itself) when dx is already in
 // that range, which the hot path checks with two comparisons.
-func shortDX(dx float64) float64 {
+func ShortDXM(dx float64) float64 {
 	if dx >= worldWidthM/2 || dx < -worldWidthM/2 {
 		return wrapDX(dx)
 	}
 	return dx
 }
 
-// wrapDX is shortDX's slow path, for differences of half a world or more.
+// wrapDX is ShortDXM's slow path, for differences of half a world or more.
 func wrapDX(dx float64) float64 {
 	dx = math.Mod(dx+worldWidthM/2, worldWidthM)
 	if dx < 0 {

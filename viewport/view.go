@@ -182,7 +182,7 @@ func (v *View) groundOfPixel(x, y float64) (u, w float64, ok bool) {
 // groundFrame returns m in the ground frame around T, in world pixels; the X
 // difference is taken the short way round the world.
 func (v *View) groundFrame(m Mercator) (u, w float64) {
-	dx := shortDX(m.X - v.target.X)
+	dx := ShortDXM(m.X - v.target.X)
 	dy := m.Y - v.target.Y
 	return dx*v.sCosH - dy*v.sSinH, dx*v.sSinH + dy*v.sCosH
 }
@@ -245,7 +245,7 @@ func (v *View) Project(p orb.Point) ScreenPoint {
 // ProjectMercator returns the screen point of the Mercator point m.
 // depth = f + v·sin θ; x = cx + f·u/depth; y = cy − f·v·cos θ/depth (y down).
 func (v *View) ProjectMercator(m Mercator) ScreenPoint {
-	dx := shortDX(m.X - v.target.X)
+	dx := ShortDXM(m.X - v.target.X)
 	dy := m.Y - v.target.Y
 	depth := v.focal + dx*v.dX + dy*v.dY
 	if !(depth > 0) {
@@ -331,7 +331,7 @@ func (q *quickTest) test(dx, dy float64) (in, sure bool) {
 // InView reports whether the Mercator point m is in view: it has a pixel in
 // the clear area and lies no deeper than k·f.
 func (v *View) InView(m Mercator) bool {
-	dx := shortDX(m.X - v.target.X)
+	dx := ShortDXM(m.X - v.target.X)
 	dy := m.Y - v.target.Y
 	depth := v.focal + dx*v.dX + dy*v.dY
 	if !(depth > 0) {
