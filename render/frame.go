@@ -8,7 +8,6 @@ import (
 	"github.com/viewspec/viewspec/viewport"
 )
 
-
 // Frame is the affine map from the Mercator plane to picture units, north
 // up, around the user:
 //
