@@ -392,7 +392,14 @@ func probeOp(impl Impl, op string, opt *ProbeOptions) *Finding {
 func scanOp(impl Impl, op string, opt *ProbeOptions) (*Finding, error) {
 	gen := ProbeRequest(op)
 	const batch = 2000
-	for start := 0; start < opt.Checks; start += batch {
+	// Batches are drawn and answered by the reference one ahead, on another
+	// goroutine, while the implementation answers the current one: the two
+	// processes' work overlaps.
+	type drawn struct {
+		cases []fixtures.Case
+		err   error
+	}
+	draw := func(start int) drawn {
 		n := min(batch, opt.Checks-start)
 		cases := make([]fixtures.Case, 0, n)
 		for i := range n {
@@ -400,10 +407,23 @@ func scanOp(impl Impl, op string, opt *ProbeOptions) (*Finding, error) {
 			id := fmt.Sprintf("probe/%s/%s/%d", op, lr.Family, start+i)
 			c, err := fixtures.NewCase(id, lr.Family, lr.Request)
 			if err != nil {
-				return nil, err
+				return drawn{err: err}
 			}
 			cases = append(cases, c)
 		}
+		return drawn{cases: cases}
+	}
+	ahead := make(chan drawn, 1)
+	go func() { ahead <- draw(0) }()
+	for start := 0; start < opt.Checks; start += batch {
+		d := <-ahead
+		if d.err != nil {
+			return nil, d.err
+		}
+		if next := start + batch; next < opt.Checks {
+			go func() { ahead <- draw(next) }()
+		}
+		cases := d.cases
 		ck := fixtures.NewChecker(opt.Profile)
 		if p, ok := impl.(*Process); ok {
 			if _, err := fixtures.Run(cases, fixtures.RunOptions{Command: p.Command, Timeout: p.Timeout}, ck); err != nil {
