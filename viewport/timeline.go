@@ -323,9 +323,10 @@ func (r *driveRun) run() ([]MarkerTimeline, error) {
 // marker keeps its answer until the footprint has moved, in total, as far
 // as its safe distance, and is not tested again until then.
 //
-// The loop runs for every marker near the view at every tick, so the test
-// is written out here with its terms in locals, and results go into slices
-// sized for every marker: nothing in the loop calls out.
+// The loop runs for every marker near the view at every tick, so the quick
+// test (see quickTest) is written out here with its terms in locals, and
+// results go into slices sized for every marker: nothing in the loop calls
+// out.
 func (r *driveRun) testSpan(k int32, sp span, q *quickTest) {
 	vis, unsure := r.visible, r.unsure
 	nv, nu := len(vis), len(unsure)

@@ -273,7 +273,6 @@ func (v *View) ProjectMercator(m Mercator) ScreenPoint {
 // ProjectMercator's, so a sure answer is exactly ProjectMercator's; the
 // rest must be asked of ProjectMercator.
 type quickTest struct {
-	empty               bool
 	tx, ty              float64
 	sCosH, sSinH        float64
 	vNear, vFar, tolV   float64
@@ -286,15 +285,8 @@ type quickTest struct {
 	invGA, invGB, invScale float64
 }
 
-func (v *View) quick() quickTest {
-	uv, _, _, ok := v.trapezoid()
-	if !ok {
-		return quickTest{empty: true}
-	}
-	return v.quickOf(&uv)
-}
-
-// quickOf is quick for the view's trapezoid uv, already computed.
+// quickOf returns the quick test of the view, whose trapezoid (not empty)
+// is uv.
 func (v *View) quickOf(uv *[4][2]float64) quickTest {
 	vNear, vFar := uv[0][1], uv[3][1]
 	return quickTest{
@@ -306,26 +298,6 @@ func (v *View) quickOf(uv *[4][2]float64) quickTest {
 		invGB:    1 / math.Hypot(v.focal, v.rightC*v.sinP),
 		invScale: 1 / v.scale,
 	}
-}
-
-// test returns whether the point dx, dy Mercator metres from T (the short
-// way) is in view, and whether that answer is sure.
-func (q *quickTest) test(dx, dy float64) (in, sure bool) {
-	w := dx*q.sSinH + dy*q.sCosH
-	tolV := q.tolV
-	if w < q.vNear-tolV || w > q.vFar+tolV {
-		return false, true
-	}
-	u := dx*q.sCosH - dy*q.sSinH
-	depth := q.focal + w*q.sinP
-	fu := q.focal * u
-	a, b := fu-q.leftC*depth, q.rightC*depth-fu
-	tolS := q.tolS * depth
-	if a < -tolS || b < -tolS {
-		return false, true
-	}
-	sure = a > tolS && b > tolS && w > q.vNear+tolV && w < q.vFar-tolV
-	return sure, sure
 }
 
 // InView reports whether the Mercator point m is in view: it has a pixel in
