@@ -123,6 +123,19 @@ func (v *View) reachesHalfWorld() bool {
 	if east(v.uA, v.vA) >= limit {
 		return true
 	}
+	// A bound first: ground on the screen at or below the far row has
+	// |u| ≤ k·W/2 (depth ≤ k·f) and |v| ≤ k·f/sin θ (below the far row, and
+	// above −f/sin θ), or |v| ≤ H/2 at pitch 0. At any zoom a drive uses
+	// this settles it without unprojecting the corners.
+	bound := d.FarRatio * d.WidthPx / 2
+	if v.sinP > 0 {
+		bound += d.FarRatio * v.focal / v.sinP
+	} else {
+		bound += d.HeightPx / 2
+	}
+	if bound < limit {
+		return false
+	}
 	for _, y := range [2]float64{far, d.HeightPx} {
 		for _, x := range [2]float64{0, d.WidthPx} {
 			if u, w, ok := v.groundOfPixel(x, y); ok && east(u, w) >= limit {
