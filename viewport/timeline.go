@@ -220,12 +220,10 @@ type driveRun struct {
 	// ends when the footprint's continuity does (empty, wrapped, first
 	// tick).
 	moved     float64
-	epoch     int32
 	prevVerts [4]Mercator
 	prevOK    bool
 	safeUntil []float64
 	safeIn    []bool
-	safeEpoch []int32
 	visible   []int32 // indices in view at this tick
 
 	// see finds the markers in view at a tick (calling test for each
@@ -248,11 +246,10 @@ func newDriveRun(d *Drive, merc []Mercator, rank []int32) *driveRun {
 
 		safeUntil: make([]float64, n),
 		safeIn:    make([]bool, n),
-		safeEpoch: make([]int32, n),
 		see:       (*driveRun).seeIndexed,
 	}
 	for i := range n {
-		r.visTick[i], r.safeEpoch[i] = -1, -1
+		r.visTick[i], r.safeUntil[i] = -1, math.Inf(-1)
 	}
 	r.gMerc = make([]Mercator, n)
 	for j, i := range r.grid.items {
@@ -336,7 +333,7 @@ func (r *driveRun) testSpan(k int32, sp span, q *quickTest) {
 	focal, sinP, leftC, rightC, tolS0 := q.focal, q.sinP, q.leftC, q.rightC, q.tolS
 	invGA, invGB := q.invGA, q.invGB
 	useSafe := sp.shiftM == 0
-	epoch, moved := r.epoch, r.moved
+	moved := r.moved
 	// Safe distances in world pixels become Mercator metres, shrunk by 1e-9
 	// and 1 mm for the rounding of the distances and of the running total.
 	toM := q.invScale * (1 - 1e-9)
@@ -347,13 +344,11 @@ func (r *driveRun) testSpan(k int32, sp span, q *quickTest) {
 	orig := r.grid.items[sp.lo:sp.hi]
 	safeUntil := r.safeUntil[sp.lo:sp.hi]
 	safeIn := r.safeIn[sp.lo:sp.hi]
-	safeEpoch := r.safeEpoch[sp.lo:sp.hi]
-	safeEpoch = safeEpoch[:len(merc)]
 	safeUntil = safeUntil[:len(merc)]
 	safeIn = safeIn[:len(merc)]
 	orig = orig[:len(merc)]
 	for j, m := range merc {
-		if useSafe && safeEpoch[j] == epoch && moved < safeUntil[j] {
+		if useSafe && moved < safeUntil[j] {
 			if safeIn[j] {
 				vis[nv] = orig[j]
 				nv++
@@ -364,7 +359,7 @@ func (r *driveRun) testSpan(k int32, sp span, q *quickTest) {
 		w := dx*ss + dy*sc
 		if w < vNear-tolV || w > vFar+tolV {
 			if useSafe {
-				safeEpoch[j], safeIn[j] = epoch, false
+				safeIn[j] = false
 				safeUntil[j] = moved + max(vNear-w, w-vFar)*toM - slackM
 			}
 			continue
@@ -375,7 +370,7 @@ func (r *driveRun) testSpan(k int32, sp span, q *quickTest) {
 		tolS := tolS0 * depth
 		if a < -tolS || b < -tolS {
 			if useSafe {
-				safeEpoch[j], safeIn[j] = epoch, false
+				safeIn[j] = false
 				safeUntil[j] = moved + max(-a*invGA, -b*invGB)*toM - slackM
 			}
 			continue
@@ -384,12 +379,12 @@ func (r *driveRun) testSpan(k int32, sp span, q *quickTest) {
 			vis[nv] = orig[j]
 			nv++
 			if useSafe {
-				safeEpoch[j], safeIn[j] = epoch, true
+				safeIn[j] = true
 				safeUntil[j] = moved + min(w-vNear, vFar-w, a*invGA, b*invGB)*toM - slackM
 			}
 		} else {
 			if useSafe {
-				safeEpoch[j] = epoch - 1 // test again next tick
+				safeUntil[j] = math.Inf(-1) // test again next tick
 			}
 			unsure[nu] = orig[j]
 			nu++
@@ -465,7 +460,9 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 	}
 	if !ok || v.wrapped || !r.prevOK {
 		// A new epoch: no earlier safe distance holds.
-		r.epoch++
+		for j := range r.safeUntil {
+			r.safeUntil[j] = math.Inf(-1)
+		}
 		r.moved = 0
 	} else {
 		var delta float64
