@@ -16,6 +16,27 @@ func (r *Route) SegmentAt(alongM float64) int {
 	return segmentIn(r.startM, r.clampAlong(alongM))
 }
 
+// segmentFrom is segmentIn(starts, v), found by walking from the hint *i
+// when v lies at most a few segments on from it (then O(1)), else by
+// halving; *i becomes the answer.
+func segmentFrom(starts []float64, v float64, i *int) int {
+	const walk = 8
+	j, last := *i, len(starts)-2
+	if j < 0 || j > last || starts[j] > v {
+		*i = segmentIn(starts, v)
+		return *i
+	}
+	for n := 0; j < last && starts[j+1] <= v; n++ {
+		if n == walk {
+			j += segmentIn(starts[j:], v)
+			break
+		}
+		j++
+	}
+	*i = j
+	return j
+}
+
 // segmentIn returns the largest i < len(starts)−1 with starts[i] ≤ v (v ≥ starts[0]).
 func segmentIn(starts []float64, v float64) int {
 	lo, hi := 0, len(starts)-2 // answer in [lo, hi]
@@ -35,8 +56,15 @@ func segmentIn(starts []float64, v float64) int {
 // (spherical linear interpolation), the same parametrisation Snap and Metrics invert. Vertices are
 // returned exactly as given.
 func (r *Route) PointAt(alongM float64) orb.Point {
+	i := -1
+	return r.pointAt(alongM, &i)
+}
+
+// pointAt is PointAt with the segment found from the hint *i (see
+// segmentFrom).
+func (r *Route) pointAt(alongM float64, hint *int) orb.Point {
 	along := r.clampAlong(alongM)
-	i := segmentIn(r.startM, along)
+	i := segmentFrom(r.startM, along, hint)
 	if along == r.startM[i] {
 		return r.pts[i]
 	}
@@ -78,14 +106,20 @@ func (r *Route) TimeBetweenS(fromM, toM float64) float64 {
 // negative tS, which moves backwards in time, at its start). The position depends only on the
 // elapsed time, so calling it with k·tick for tick k accumulates no error. O(log n), no allocation.
 func (r *Route) AlongAfterS(startAlongM, tS float64) float64 {
-	t := r.timeAt(startAlongM) + tS
+	j := -1
+	return r.alongAtS(r.timeAt(startAlongM)+tS, &j)
+}
+
+// alongAtS returns the along-route position reached at travel time t from
+// the route's start, the segment found from the hint *j (see segmentFrom).
+func (r *Route) alongAtS(t float64, hint *int) float64 {
 	if !(t > 0) { // also NaN
 		return 0
 	}
 	if t >= r.DurationS() {
 		return r.LengthM()
 	}
-	j := segmentIn(r.startS, t)
+	j := segmentFrom(r.startS, t, hint)
 	return math.Min(r.startM[j+1], r.startM[j]+(t-r.startS[j])*r.segs[j].speedMps)
 }
 
@@ -113,7 +147,22 @@ func HeadingChangeDeg(fromDeg, toDeg float64) float64 {
 // ahead of it in turns (ascending along-route positions, as from Turns), and false when there is
 // none. O(log n), no allocation.
 func NextTurnDistM(turns []float64, alongM float64) (distM float64, ok bool) {
-	lo, hi := 0, len(turns) // first index with turns[i] > alongM
+	return nextTurn(turns, alongM, firstAbove(turns, alongM))
+}
+
+// nextTurn is NextTurnDistM given i, the index of the first turn beyond
+// alongM.
+func nextTurn(turns []float64, alongM float64, i int) (distM float64, ok bool) {
+	if i == len(turns) {
+		return 0, false
+	}
+	return turns[i] - alongM, true
+}
+
+// firstAbove returns the first index i with turns[i] > alongM, or
+// len(turns) (NaN is above none).
+func firstAbove(turns []float64, alongM float64) int {
+	lo, hi := 0, len(turns)
 	for lo < hi {
 		mid := (lo + hi) / 2
 		if turns[mid] > alongM {
@@ -122,8 +171,5 @@ func NextTurnDistM(turns []float64, alongM float64) (distM float64, ok bool) {
 			lo = mid + 1
 		}
 	}
-	if lo == len(turns) {
-		return 0, false
-	}
-	return turns[lo] - alongM, true
+	return lo
 }

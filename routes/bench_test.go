@@ -109,3 +109,35 @@ func BenchmarkAlongAfter(b *testing.B) {
 		sinkFloat = mb.r.AlongAfterS(100, t)
 	}
 }
+
+// driveStep is one tick of a drive's route lookups: position, segment,
+// point and next turn.
+func driveStep(b *testing.B, walker bool) {
+	mb := newMetricsBench(b, 500)
+	r := mb.r
+	dur := r.DurationS()
+	turns := r.Turns(30)
+	w := r.Walk(100)
+	b.ReportAllocs()
+	t := 0.0
+	for b.Loop() {
+		t += 0.25
+		if t > dur {
+			t = 0
+		}
+		if walker {
+			along := w.AlongAfterS(t)
+			sinkFloat = float64(w.SegmentAt(along)) + w.PointAt(along)[0]
+			sinkFloat, _ = w.NextTurnDistM(turns, along)
+		} else {
+			along := r.AlongAfterS(100, t)
+			sinkFloat = float64(r.SegmentAt(along)) + r.PointAt(along)[0]
+			sinkFloat, _ = NextTurnDistM(turns, along)
+		}
+	}
+}
+
+// BenchmarkDriveStepWalker is driveStep with a Walker's remembered
+// segments; BenchmarkDriveStepSearch searches afresh at every call.
+func BenchmarkDriveStepWalker(b *testing.B) { driveStep(b, true) }
+func BenchmarkDriveStepSearch(b *testing.B) { driveStep(b, false) }

@@ -8,12 +8,11 @@ func TimelineNaive(d *Drive, ms []Marker) ([]MarkerTimeline, error) {
 	if err := d.Validate(); err != nil {
 		return nil, err
 	}
-	_, rank, err := rankMarkers(ms)
+	merc, err := markerPoints(ms)
 	if err != nil {
 		return nil, err
 	}
-	merc, _, _ := rankMarkers(ms)
-	r := newDriveRun(d, merc, rank)
+	r := newDriveRun(d, ms, merc)
 	r.see = func(r *driveRun, k int32, v *View) {
 		full, err := Prepare(v.cam)
 		if err != nil {
@@ -27,4 +26,38 @@ func TimelineNaive(d *Drive, ms []Marker) ([]MarkerTimeline, error) {
 		}
 	}
 	return r.run()
+}
+
+// TimelineChecked is Timeline checking, at every tick, that the indexed
+// search finds exactly the markers ProjectMercator puts in view, each
+// once. It returns the first tick where it does not and the marker, or −1.
+func TimelineChecked(d *Drive, ms []Marker) (out []MarkerTimeline, badTick, badMarker int, err error) {
+	if err := d.Validate(); err != nil {
+		return nil, -1, -1, err
+	}
+	merc, err := markerPoints(ms)
+	if err != nil {
+		return nil, -1, -1, err
+	}
+	r := newDriveRun(d, ms, merc)
+	badTick, badMarker = -1, -1
+	count := make([]int, len(ms))
+	r.see = func(r *driveRun, k int32, v *View) {
+		r.seeIndexed(k, v)
+		clear(count)
+		for _, i := range r.visible {
+			count[i]++
+		}
+		for i, m := range merc {
+			want := 0
+			if v.ProjectMercator(m).InView() {
+				want = 1
+			}
+			if count[i] != want && badTick < 0 {
+				badTick, badMarker = int(k), i
+			}
+		}
+	}
+	out, err = r.run()
+	return out, badTick, badMarker, err
 }

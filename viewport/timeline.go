@@ -1,10 +1,8 @@
 package viewport
 
 import (
-	"cmp"
 	"fmt"
 	"math"
-	"slices"
 
 	"github.com/paulmach/orb"
 
@@ -155,55 +153,39 @@ func Timeline(d *Drive, ms []Marker) ([]MarkerTimeline, error) {
 	if err := d.Validate(); err != nil {
 		return nil, err
 	}
-	merc, rank, err := rankMarkers(ms)
+	merc, err := markerPoints(ms)
 	if err != nil {
 		return nil, err
 	}
-	return newDriveRun(d, merc, rank).run()
+	return newDriveRun(d, ms, merc).run()
 }
 
-// rankMarkers validates ms and returns their Mercator points and their
-// ranks for free slots: highest priority first, then the smallest id byte
-// by byte.
-func rankMarkers(ms []Marker) ([]Mercator, []int32, error) {
+// markerPoints validates ms and returns their Mercator points.
+func markerPoints(ms []Marker) ([]Mercator, error) {
 	merc := make([]Mercator, len(ms))
 	seen := make(map[string]int, len(ms))
 	for i, m := range ms {
 		if lat, lon := m.Point[1], m.Point[0]; !(lat >= -90 && lat <= 90 && lon >= -180 && lon <= 180) {
-			return nil, nil, routes.ValidateLatLon(fmt.Sprintf("markers[%d]", i), m.Point)
+			return nil, routes.ValidateLatLon(fmt.Sprintf("markers[%d]", i), m.Point)
 		}
 		if !finite(m.Priority) {
-			return nil, nil, &FieldError{Field: fmt.Sprintf("markers[%d].priority", i), Value: m.Priority, Reason: "priority must be finite"}
+			return nil, &FieldError{Field: fmt.Sprintf("markers[%d].priority", i), Value: m.Priority, Reason: "priority must be finite"}
 		}
 		if j, dup := seen[m.ID]; dup {
-			return nil, nil, &FieldError{Field: fmt.Sprintf("markers[%d].id", i), Value: float64(j),
+			return nil, &FieldError{Field: fmt.Sprintf("markers[%d].id", i), Value: float64(j),
 				Reason: fmt.Sprintf("duplicate id %q (the value is the first index)", m.ID)}
 		}
 		seen[m.ID] = i
 		merc[i] = ToMercator(m.Point)
 	}
-	order := make([]int, len(ms))
-	for i := range order {
-		order[i] = i
-	}
-	slices.SortFunc(order, func(a, b int) int {
-		if c := cmp.Compare(ms[b].Priority, ms[a].Priority); c != 0 {
-			return c
-		}
-		return cmp.Compare(ms[a].ID, ms[b].ID)
-	})
-	rank := make([]int32, len(ms))
-	for r, i := range order {
-		rank[i] = int32(r)
-	}
-	return merc, rank, nil
+	return merc, nil
 }
 
 // driveRun is the state of one timeline run.
 type driveRun struct {
 	d     *Drive
+	ms    []Marker
 	merc  []Mercator
-	rank  []int32
 	grid  markerGrid
 	turns []float64
 
@@ -231,9 +213,9 @@ type driveRun struct {
 	see func(r *driveRun, k int32, v *View)
 }
 
-func newDriveRun(d *Drive, merc []Mercator, rank []int32) *driveRun {
+func newDriveRun(d *Drive, ms []Marker, merc []Mercator) *driveRun {
 	n := len(merc)
-	r := &driveRun{d: d, merc: merc, rank: rank, grid: newMarkerGrid(merc),
+	r := &driveRun{d: d, ms: ms, merc: merc, grid: newMarkerGrid(merc),
 		turns:   d.Route.Turns(d.Rules.Turn.MinAngleDeg),
 		out:     make([]MarkerTimeline, n),
 		visTick: make([]int32, n),
@@ -267,15 +249,16 @@ func (r *driveRun) run() ([]MarkerTimeline, error) {
 	var heading float64
 	var v View
 	cam := Camera{Device: d.Device}
+	walk := rt.Walk(d.StartAlongM)
 	for k := 0; k <= n; k++ {
 		t := float64(k) * d.TickS
-		along := rt.AlongAfterS(d.StartAlongM, t)
-		seg := rt.Segment(rt.SegmentAt(along)) // the current segment, found once
+		along := walk.AlongAfterS(t)
+		seg := rt.Segment(walk.SegmentAt(along)) // the current segment, found once
 		speed := seg.SpeedMps
 		if along >= lengthM {
 			speed = 0 // stopped at the route's end
 		}
-		turnDist, hasTurn := routes.NextTurnDistM(r.turns, along)
+		turnDist, hasTurn := walk.NextTurnDistM(r.turns, along)
 		target := seg.HeadingDeg
 		if k == 0 {
 			var err error
@@ -289,7 +272,7 @@ func (r *driveRun) run() ([]MarkerTimeline, error) {
 			}
 			heading = rules.TurnHeadingDeg(heading, target, d.Rules.MaxTurnRateDegPerS*d.TickS)
 		}
-		pos := rt.PointAt(along)
+		pos := walk.PointAt(along)
 		cam.LatDeg, cam.LonDeg = pos[1], pos[0]
 		cam.HeadingDeg, cam.PitchDeg, cam.Zoom = heading, st.PitchDeg(), st.Zoom()
 		if err := v.place(&cam); err != nil {
@@ -312,9 +295,8 @@ func (r *driveRun) run() ([]MarkerTimeline, error) {
 // shifted by shiftM (0, or a world's width for the copies across the
 // antimeridian). Unsure answers are left in r.unsure for ProjectMercator.
 //
-// A marker tested at X unshifted also gets a safe distance: a lower bound
-// on its Mercator distance to the footprint's boundary (from outside, the
-// largest violated half-plane; from inside, the nearest one). The footprint
+// A marker tested at X unshifted also gets a safe distance: the quick
+// test's bound on its distance to the footprint's boundary. The footprint
 // is convex and its vertices move by at most δ a tick, so no point of it
 // moves farther than δ (every point is a fixed blend of the vertices): the
 // marker keeps its answer until the footprint has moved, in total, as far
@@ -328,10 +310,10 @@ func (r *driveRun) testSpan(k int32, sp span, q *quickTest) {
 	vis, unsure := r.visible, r.unsure
 	nv, nu := len(vis), len(unsure)
 	vis, unsure = vis[:cap(vis)], unsure[:cap(unsure)]
-	tx, ty, sc, ss := q.tx-sp.shiftM, q.ty, q.sCosH, q.sSinH
-	vNear, vFar, tolV := q.vNear, q.vFar, q.tolV
-	focal, sinP, leftC, rightC, tolS0 := q.focal, q.sinP, q.leftC, q.rightC, q.tolS
-	invGA, invGB := q.invGA, q.invGB
+	tx, ty, wX, wY := q.tx-sp.shiftM, q.ty, q.wX, q.wY
+	vMid, halfV := q.vMid, q.halfV
+	aX, aY, aC, bX, bY, bC := q.aX, q.aY, q.aC, q.bX, q.bY, q.bC
+	tol := q.tolPx
 	useSafe := sp.shiftM == 0
 	moved := r.moved
 	// Safe distances in world pixels become Mercator metres, shrunk by 1e-9
@@ -356,33 +338,22 @@ func (r *driveRun) testSpan(k int32, sp span, q *quickTest) {
 			continue
 		}
 		dx, dy := m.X-tx, m.Y-ty
-		w := dx*ss + dy*sc
-		if w < vNear-tolV || w > vFar+tolV {
+		w := wX*dx + wY*dy
+		d := max(math.Abs(w-vMid)-halfV, aX*dx+aY*dy+aC, bX*dx+bY*dy+bC)
+		switch {
+		case d > tol:
 			if useSafe {
 				safeIn[j] = false
-				safeUntil[j] = moved + max(vNear-w, w-vFar)*toM - slackM
+				safeUntil[j] = moved + d*toM - slackM
 			}
-			continue
-		}
-		depth := focal + w*sinP
-		fu := focal * (dx*sc - dy*ss)
-		a, b := fu-leftC*depth, rightC*depth-fu
-		tolS := tolS0 * depth
-		if a < -tolS || b < -tolS {
-			if useSafe {
-				safeIn[j] = false
-				safeUntil[j] = moved + max(-a*invGA, -b*invGB)*toM - slackM
-			}
-			continue
-		}
-		if a > tolS && b > tolS && w > vNear+tolV && w < vFar-tolV {
+		case d < -tol:
 			vis[nv] = orig[j]
 			nv++
 			if useSafe {
 				safeIn[j] = true
-				safeUntil[j] = moved + min(w-vNear, vFar-w, a*invGA, b*invGB)*toM - slackM
+				safeUntil[j] = moved - d*toM - slackM
 			}
-		} else {
+		default:
 			if useSafe {
 				safeUntil[j] = math.Inf(-1) // test again next tick
 			}
@@ -411,7 +382,7 @@ func (r *driveRun) tick(k int, t float64, v *View) {
 		}
 	}
 	r.shown = kept
-	// Free slots go to visible, not-shown markers by rank.
+	// Free slots go to visible, not-shown markers by rank (see ahead).
 	for len(r.shown) < r.d.Cap {
 		best := -1
 		for _, i32 := range r.visible {
@@ -419,7 +390,7 @@ func (r *driveRun) tick(k int, t float64, v *View) {
 			if r.isShown(i) {
 				continue
 			}
-			if best < 0 || r.rank[i] < r.rank[best] {
+			if best < 0 || r.ahead(i, best) {
 				best = i
 			}
 		}
@@ -465,11 +436,14 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 		}
 		r.moved = 0
 	} else {
-		var delta float64
+		// The largest squared move, then one root (its rounding, a few
+		// parts in 1e16, is far inside the safe distances' slack).
+		var d2 float64
 		for j, p := range verts {
-			delta = max(delta, math.Hypot(p.X-r.prevVerts[j].X, p.Y-r.prevVerts[j].Y))
+			dx, dy := p.X-r.prevVerts[j].X, p.Y-r.prevVerts[j].Y
+			d2 = max(d2, dx*dx+dy*dy)
 		}
-		r.moved += delta
+		r.moved += math.Sqrt(d2)
 	}
 	r.prevVerts, r.prevOK = verts, ok && !v.wrapped
 	if v.wrapped {
@@ -504,6 +478,14 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 	for _, i := range r.visible {
 		r.visTick[i] = k
 	}
+}
+
+// ahead reports whether marker i ranks before marker j for a free slot:
+// higher priority first, then the smaller id byte by byte (ids are
+// unique, so this orders all markers).
+func (r *driveRun) ahead(i, j int) bool {
+	a, b := &r.ms[i], &r.ms[j]
+	return a.Priority > b.Priority || (a.Priority == b.Priority && a.ID < b.ID)
 }
 
 func (r *driveRun) isShown(i int) bool {

@@ -296,6 +296,32 @@ func TestTimelineShownWithinCapAndVisible(t *testing.T) {
 	})
 }
 
+// At every tick, the indexed search (grid, quick test and safe distances)
+// finds exactly the markers ProjectMercator puts in view, each once, also
+// at ticks of 0.1 s where most answers are carried from earlier ticks.
+func TestTimelineIndexedExact(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		d, ms := drawDrive(t)
+		d.TickS = rapid.SampledFrom([]float64{0.5, 0.25, 0.1}).Draw(t, "tick_s")
+		want, err := viewport.Timeline(&d, ms)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, k, i, err := viewport.TimelineChecked(&d, ms)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if k >= 0 {
+			t.Fatalf("tick %d: marker %d: found in view %s", k, i, "unlike ProjectMercator")
+		}
+		for j := range got {
+			if got[j] != want[j] {
+				t.Fatalf("%s: checked run %+v, plain run %+v", ms[j].ID, got[j], want[j])
+			}
+		}
+	})
+}
+
 // Doubling the cap never lowers any marker's shown time; the answer does
 // not depend on the order the markers are given in.
 func TestTimelineCapMonotoneAndOrderFree(t *testing.T) {

@@ -41,7 +41,7 @@ type View struct {
 	wrapped                  bool
 
 	// The clear area and far row relative to the principal point, for
-	// inViewQuick; spanC bounds their magnitudes.
+	// the quick test; spanC bounds their magnitudes.
 	leftC, rightC, topC, bottomC, farC, spanC float64
 }
 
@@ -276,39 +276,53 @@ func (v *View) ProjectMercator(m Mercator) ScreenPoint {
 	return ScreenPoint{X: x, Y: y, DepthPx: depth, MarginPx: margin}
 }
 
-// quickTest is one view's in-view test in the ground frame, for batches of
-// points: rows of the screen are lines of constant v, so the clear area's
-// top and bottom and the far row become v ∈ [vNear, vFar], and its sides
-// become f·u ≥ (left − cx)·depth and f·u ≤ (right − cx)·depth with
-// depth = f + v·sin θ — no division. An answer counts as sure when every
-// test passes or one fails by more than 1e-9 of the magnitudes involved,
-// far beyond the ~1e-16 relative rounding of this form and of
-// ProjectMercator's, so a sure answer is exactly ProjectMercator's; the
-// rest must be asked of ProjectMercator.
+// quickTest is one view's in-view test for batches of points, as four
+// linear forms in the Mercator offset (dx, dy) from T: the signed distances
+// in world pixels from the footprint's four lines, positive outside — its
+// near and far rows (v = vNear, v = vFar in the ground frame) and its sides
+// (f·u = (left − cx)·depth and f·u = (right − cx)·depth with
+// depth = f + v·sin θ, which are lines in the ground plane). Their largest,
+// d, has no division in it. An answer counts as sure when |d| exceeds
+// 1e-9 of the footprint's magnitudes, far beyond the ~1e-16 relative
+// rounding of this form and of ProjectMercator's, so a sure answer is
+// exactly ProjectMercator's; the rest must be asked of ProjectMercator.
+//
+// d also bounds the distance to the footprint: outside, the distance to
+// the farthest line whose wrong side the point is on is a lower bound on
+// its distance to the (convex) footprint; inside, −d is the distance to
+// its boundary.
 type quickTest struct {
-	tx, ty              float64
-	sCosH, sSinH        float64
-	vNear, vFar, tolV   float64
-	focal, sinP         float64
-	leftC, rightC, tolS float64
-	// invGA and invGB turn the side tests' values a and b into world
-	// pixels from the side lines: 1/|∇a| with ∇a = (f, −leftC·sin θ) in
-	// (u, v), and likewise for b; invScale turns world pixels into Mercator
-	// metres.
-	invGA, invGB, invScale float64
+	tx, ty     float64 // T, Mercator metres
+	wX, wY     float64 // v = wX·dx + wY·dy
+	vMid       float64 // the v midway between the near and far rows, world pixels
+	halfV      float64 // half the v from the near row to the far: both rows' distance is |v − vMid| − halfV
+	aX, aY, aC float64 // the left side's distance: aX·dx + aY·dy + aC
+	bX, bY, bC float64 // the right side's
+	tolPx      float64 // the sure margin, world pixels
+	invScale   float64 // Mercator metres per world pixel
 }
 
 // quickOf returns the quick test of the view, whose trapezoid (not empty)
 // is uv.
 func (v *View) quickOf(uv *[4][2]float64) quickTest {
-	vNear, vFar := uv[0][1], uv[3][1]
+	f, sinP := v.focal, v.sinP
+	sc, ss := v.sCosH, v.sSinH
+	// u = sc·dx − ss·dy and v = ss·dx + sc·dy (world pixels). The left
+	// side's value −(f·u − leftC·depth), over its gradient's length in
+	// (u, v), is its signed distance; likewise the right side's with the
+	// sign turned.
+	ga := 1 / math.Hypot(f, v.leftC*sinP)
+	gb := 1 / math.Hypot(f, v.rightC*sinP)
+	span := f
+	for _, p := range uv {
+		span += math.Abs(p[0]) + math.Abs(p[1])
+	}
 	return quickTest{
-		tx: v.target.X, ty: v.target.Y, sCosH: v.sCosH, sSinH: v.sSinH,
-		vNear: vNear, vFar: vFar, tolV: 1e-9 * (math.Abs(vNear) + math.Abs(vFar) + v.focal),
-		focal: v.focal, sinP: v.sinP,
-		leftC: v.leftC, rightC: v.rightC, tolS: 1e-9 * v.spanC,
-		invGA:    1 / math.Hypot(v.focal, v.leftC*v.sinP),
-		invGB:    1 / math.Hypot(v.focal, v.rightC*v.sinP),
+		tx: v.target.X, ty: v.target.Y, wX: ss, wY: sc,
+		vMid: (uv[0][1] + uv[3][1]) / 2, halfV: (uv[3][1] - uv[0][1]) / 2,
+		aX: ga * (v.leftC*sinP*ss - f*sc), aY: ga * (v.leftC*sinP*sc + f*ss), aC: ga * v.leftC * f,
+		bX: gb * (f*sc - v.rightC*sinP*ss), bY: -gb * (f*ss + v.rightC*sinP*sc), bC: -gb * v.rightC * f,
+		tolPx:    1e-9 * span,
 		invScale: 1 / v.scale,
 	}
 }
