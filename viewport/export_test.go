@@ -20,7 +20,6 @@ func TimelineNaive(d *Drive, ms []Marker) ([]MarkerTimeline, error) {
 		}
 		for i, m := range ms {
 			if sp := full.Project(m.Point); sp.InView() {
-				r.visTick[i] = k
 				r.visible = append(r.visible, int32(i))
 			}
 		}

@@ -208,8 +208,8 @@ type driveRun struct {
 	safeIn    []bool
 	visible   []int32 // indices in view at this tick
 
-	// see finds the markers in view at a tick (calling test for each
-	// candidate); the indexed search by default.
+	// see appends the markers in view at tick k to r.visible, each once;
+	// the indexed search by default.
 	see func(r *driveRun, k int32, v *View)
 }
 
@@ -370,6 +370,7 @@ func (r *driveRun) tick(k int, t float64, v *View) {
 	r.visible = r.visible[:0]
 	r.see(r, k32, v)
 	for _, i := range r.visible {
+		r.visTick[i] = k32
 		if !r.out[i].Visible {
 			r.out[i].Visible, r.out[i].FirstVisibleS = true, t
 		}
@@ -449,7 +450,6 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 	if v.wrapped {
 		for i := range r.merc {
 			if v.ProjectMercator(r.merc[i]).InView() {
-				r.visTick[i] = k
 				r.visible = append(r.visible, int32(i))
 			}
 		}
@@ -474,9 +474,6 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 		if v.ProjectMercator(r.merc[i]).InView() {
 			r.visible = append(r.visible, i)
 		}
-	}
-	for _, i := range r.visible {
-		r.visTick[i] = k
 	}
 }
 
