@@ -1,5 +1,7 @@
 package viewport
 
+import "math"
+
 // TimelineNaive is the timeline with the naive visibility search: a camera
 // prepared in full and every marker projected from latitude and longitude
 // at every tick. It is the test oracle of the indexed search and the
@@ -59,4 +61,19 @@ func TimelineChecked(d *Drive, ms []Marker) (out []MarkerTimeline, badTick, badM
 	}
 	out, err = r.run()
 	return out, badTick, badMarker, err
+}
+
+// QuickTest runs the timeline's quick test of v on m: whether its answer
+// is sure, the answer, and its distance bound in Mercator metres. ok is
+// false when the footprint is empty.
+func QuickTest(v *View, m Mercator) (sure, in bool, distM float64, ok bool) {
+	uv, _, _, ok := v.trapezoid()
+	if !ok {
+		return false, false, 0, false
+	}
+	q := v.quickOf(&uv)
+	dx, dy := m.X-q.tx, m.Y-q.ty
+	w := q.wX*dx + q.wY*dy
+	d := max(math.Abs(w-q.vMid)-q.halfV, q.aX*dx+q.aY*dy+q.aC, q.bX*dx+q.bY*dy+q.bC)
+	return math.Abs(d) > q.tolPx, d < 0, math.Abs(d) * q.invScale, true
 }

@@ -40,9 +40,9 @@ type View struct {
 	groundScale              float64 // cos φ of the user's (clamped) latitude
 	wrapped                  bool
 
-	// The clear area and far row relative to the principal point, for
-	// the quick test; spanC bounds their magnitudes.
-	leftC, rightC, topC, bottomC, farC, spanC float64
+	// The clear area's sides relative to the principal point, for the
+	// quick test.
+	leftC, rightC float64
 }
 
 // Prepare validates c and returns its prepared view. The camera is placed so
@@ -90,11 +90,6 @@ func (v *View) place(c *Camera) error {
 	}
 
 	v.leftC, v.rightC = v.left-v.cx, v.right-v.cx
-	v.topC, v.bottomC, v.farC = v.top-v.cy, v.bottom-v.cy, v.farRow-v.cy
-	// The edges' largest distance from the principal point, counting the
-	// far row only where it lies on the screen (above it, it cuts nothing
-	// the top edge does not).
-	v.spanC = max(-v.leftC, v.rightC, -v.topC, v.bottomC, -max(v.farC, -d.HeightPx))
 
 	v.user = ToMercator(c.User())
 	v.groundScale = GroundScale(c.LatDeg)

@@ -386,3 +386,72 @@ func TestGroundDistMStraightOut(t *testing.T) {
 		t.Fatalf("GroundDistM(user) = %v, want 0", d)
 	}
 }
+
+// The timeline's quick test: a sure answer is exactly ProjectMercator's,
+// and its distance bound is at most the point's distance to the
+// footprint's boundary (outside, a lower bound on the distance to the
+// footprint; inside, the room to its edge), for points on, near and far
+// from the footprint of any camera.
+func TestQuickTestSureAndBound(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		c := props.Camera().Draw(t, "camera")
+		v := mustPrepare(t, c)
+		if v.Wrapped() {
+			t.Skip("view wider than half the world")
+		}
+		fp := v.Footprint()
+		if fp.Empty {
+			t.Skip("empty footprint")
+		}
+		vs := fp.Mercator
+		// A blend of the vertices, moved by up to a factor of the
+		// footprint's size (from a nanometre's worth to twice its size).
+		var m viewport.Mercator
+		var wsum float64
+		for _, p := range vs {
+			w := rapid.SampledFrom([]float64{0, 0, 1, rapid.Float64Range(0, 1).Draw(t, "w")}).Draw(t, "weight")
+			m.X += w * p.X
+			m.Y += w * p.Y
+			wsum += w
+		}
+		if wsum == 0 {
+			m, wsum = vs[0], 1
+		} else {
+			m.X, m.Y = m.X/wsum, m.Y/wsum
+		}
+		size := math.Hypot(vs[2].X-vs[0].X, vs[2].Y-vs[0].Y)
+		off := size * props.LogUniform(1e-12, 2).Draw(t, "offset")
+		ang := rapid.Float64Range(0, 2*math.Pi).Draw(t, "angle")
+		if rapid.Bool().Draw(t, "move") {
+			m.X += off * math.Cos(ang)
+			m.Y += off * math.Sin(ang)
+		}
+		// The copy of the point nearest T, the one ProjectMercator takes.
+		tg := v.Target()
+		m.X = tg.X + viewport.ShortDXM(m.X-tg.X)
+		sure, in, distM, ok := viewport.QuickTest(&v, m)
+		if !ok {
+			t.Fatal("quick test found the footprint empty")
+		}
+		if !sure {
+			return
+		}
+		if want := v.ProjectMercator(m).InView(); in != want {
+			t.Fatalf("%v: quick test says in view %v, ProjectMercator %v", m, in, want)
+		}
+		// The distance to the boundary: the nearest of the four edges.
+		edge := math.Inf(1)
+		for i := range vs {
+			a, b := vs[i], vs[(i+1)%4]
+			ex, ey := b.X-a.X, b.Y-a.Y
+			s := 0.0
+			if l2 := ex*ex + ey*ey; l2 > 0 {
+				s = math.Max(0, math.Min(1, ((m.X-a.X)*ex+(m.Y-a.Y)*ey)/l2))
+			}
+			edge = math.Min(edge, math.Hypot(m.X-a.X-s*ex, m.Y-a.Y-s*ey))
+		}
+		if tol := 1e-9*(edge+size) + mercUlpM(m, v.Target()); distM > edge+tol {
+			t.Fatalf("%v (in view %v): bound %.9g m beyond the distance to the boundary %.9g m", m, in, distM, edge)
+		}
+	})
+}
