@@ -329,31 +329,26 @@ func (r *driveRun) testSpan(k int32, sp span, q *quickTest) {
 	safeUntil = safeUntil[:len(merc)]
 	safeIn = safeIn[:len(merc)]
 	orig = orig[:len(merc)]
+	// Whether a marker is in view is mixed from one to the next, so the
+	// visible list is written at every marker and advanced by the answer,
+	// without a branch on it.
 	for j, m := range merc {
 		if useSafe && moved < safeUntil[j] {
-			if safeIn[j] {
-				vis[nv] = orig[j]
-				nv++
-			}
+			vis[nv] = orig[j]
+			nv += b2i(safeIn[j])
 			continue
 		}
 		dx, dy := m.X-tx, m.Y-ty
 		w := wX*dx + wY*dy
 		d := max(math.Abs(w-vMid)-halfV, aX*dx+aY*dy+aC, bX*dx+bY*dy+bC)
-		switch {
-		case d > tol:
-			if useSafe {
-				safeIn[j] = false
-				safeUntil[j] = moved + d*toM - slackM
-			}
-		case d < -tol:
-			vis[nv] = orig[j]
-			nv++
-			if useSafe {
-				safeIn[j] = true
-				safeUntil[j] = moved - d*toM - slackM
-			}
-		default:
+		in := d < -tol
+		vis[nv] = orig[j]
+		nv += b2i(in)
+		if useSafe {
+			safeIn[j] = in
+			safeUntil[j] = moved + math.Abs(d)*toM - slackM
+		}
+		if math.Abs(d) <= tol { // unsure: rare
 			if useSafe {
 				safeUntil[j] = math.Inf(-1) // test again next tick
 			}
@@ -362,6 +357,14 @@ func (r *driveRun) testSpan(k int32, sp span, q *quickTest) {
 		}
 	}
 	r.visible, r.unsure = vis[:nv], unsure[:nu]
+}
+
+// b2i returns 1 for true and 0 for false.
+func b2i(b bool) int {
+	if b {
+		return 1
+	}
+	return 0
 }
 
 // tick finds who is in view at tick k and gives out the slots.
