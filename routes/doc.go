@@ -42,6 +42,8 @@
 // the segments (in 3-D unit-sphere coordinates, so seamless at the antimeridian and the poles) and
 // touch few of them, and, like the along-route helpers, do not allocate. On a 2-core VM, Metrics
 // for 200 markers takes about 0.2 ms on a 500-vertex route and 0.25 ms on a 20,000-vertex one.
+// The along-route helpers search for their segment in O(log n); a Walker, for loops over the ticks
+// of a drive, remembers where it was and steps in O(1), with the same answers.
 //
 // # Out of scope
 //
