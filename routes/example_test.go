@@ -62,6 +62,25 @@ func ExampleRoute_AlongAfterS() {
 	// t=1000 s: 2003.8 m
 }
 
+// A walker steps a drive tick by tick without searching for its segment
+// afresh, with the Route methods' answers.
+func ExampleWalker() {
+	r, _ := routes.New([]orb.Point{{0, 0}, {0.009, 0}, {0.009, 0.009}}, []float64{10, 20})
+	turns := r.Turns(30)
+	w := r.Walk(0)
+	for k := 0; k <= 4; k++ {
+		along := w.AlongAfterS(float64(k) * 40)
+		toTurn, ok := w.NextTurnDistM(turns, along)
+		fmt.Printf("t=%3d s: %6.1f m, segment %d, turn ahead %v %.1f m\n", k*40, along, w.SegmentAt(along), ok, toTurn)
+	}
+	// Output:
+	// t=  0 s:    0.0 m, segment 0, turn ahead true 1001.9 m
+	// t= 40 s:  400.0 m, segment 0, turn ahead true 601.9 m
+	// t= 80 s:  800.0 m, segment 0, turn ahead true 201.9 m
+	// t=120 s: 1398.1 m, segment 1, turn ahead false 0.0 m
+	// t=160 s: 1997.0 m, segment 1, turn ahead false 0.0 m
+}
+
 func ExampleRoute_Turns() {
 	r, _ := routes.New([]orb.Point{{0, 0}, {0.01, 0}, {0.01, 0.01}, {0.011, 0.02}}, []float64{10})
 	turns := r.Turns(30)
