@@ -16,39 +16,15 @@ func (r *Route) SegmentAt(alongM float64) int {
 	return segmentIn(r.startM, r.clampAlong(alongM))
 }
 
-// segmentFrom is segmentIn(starts, v), found by walking from the hint *i
-// when v lies at most a few segments on from it (then O(1)), else by
-// halving; *i becomes the answer.
-func segmentFrom(starts []float64, v float64, i *int) int {
-	const walk = 8
-	j, last := *i, len(starts)-2
-	if j < 0 || j > last || starts[j] > v {
-		*i = segmentIn(starts, v)
-		return *i
-	}
-	for n := 0; j < last && starts[j+1] <= v; n++ {
-		if n == walk {
-			j += segmentIn(starts[j:], v)
-			break
-		}
-		j++
-	}
-	*i = j
-	return j
-}
-
 // segmentIn returns the largest i < len(starts)−1 with starts[i] ≤ v (v ≥ starts[0]).
 func segmentIn(starts []float64, v float64) int {
-	lo, hi := 0, len(starts)-2 // answer in [lo, hi]
-	for lo < hi {
-		mid := (lo + hi + 1) / 2
-		if starts[mid] <= v {
-			lo = mid
-		} else {
-			hi = mid - 1
-		}
-	}
-	return lo
+	return firstAbove(starts[:len(starts)-1], v) - 1
+}
+
+// segmentFrom is segmentIn(starts, v) with the search started from the hint *i (see
+// firstAboveFrom, whose index it keeps there).
+func segmentFrom(starts []float64, v float64, i *int) int {
+	return firstAboveFrom(starts[:len(starts)-1], v, i) - 1
 }
 
 // PointAt returns the point ([lon, lat] degrees) at along-route position alongM. On segment i it
@@ -159,17 +135,37 @@ func nextTurn(turns []float64, alongM float64, i int) (distM float64, ok bool) {
 	return turns[i] - alongM, true
 }
 
-// firstAbove returns the first index i with turns[i] > alongM, or
-// len(turns) (NaN is above none).
-func firstAbove(turns []float64, alongM float64) int {
-	lo, hi := 0, len(turns)
+// firstAbove returns the first index i with xs[i] > v, or len(xs) (NaN is above none); xs
+// ascends.
+func firstAbove(xs []float64, v float64) int {
+	lo, hi := 0, len(xs)
 	for lo < hi {
 		mid := (lo + hi) / 2
-		if turns[mid] > alongM {
+		if xs[mid] > v {
 			hi = mid
 		} else {
 			lo = mid + 1
 		}
 	}
 	return lo
+}
+
+// firstAboveFrom is firstAbove(xs, v), found by walking on from the hint *i when the answer lies
+// a few places on (then O(1)), else by halving; *i becomes the answer.
+func firstAboveFrom(xs []float64, v float64, i *int) int {
+	const walk = 8
+	j := *i
+	if j < 0 || j > len(xs) || v != v || (j > 0 && xs[j-1] > v) {
+		j = firstAbove(xs, v)
+	} else {
+		for n := 0; j < len(xs) && xs[j] <= v; n++ {
+			if n == walk {
+				j += firstAbove(xs[j:], v)
+				break
+			}
+			j++
+		}
+	}
+	*i = j
+	return j
 }

@@ -10,48 +10,34 @@ import "github.com/paulmach/orb"
 type Walker struct {
 	r      *Route
 	startS float64 // travel time from the route's start to the drive's start
-	// The hints: the segment of the last time, of the last position, and
-	// the index of the last next turn.
-	timeSeg, alongSeg, turn int
+	// The hints (see firstAboveFrom): where the last time fell among the
+	// segments' start times, the last position among their starts, and
+	// the last position among the turns.
+	timeHint, alongHint, turnHint int
 }
 
 // Walk returns a walker for a drive leaving startAlongM.
 func (r *Route) Walk(startAlongM float64) Walker {
-	return Walker{r: r, startS: r.timeAt(startAlongM), timeSeg: -1, alongSeg: -1}
+	return Walker{r: r, startS: r.timeAt(startAlongM), timeHint: -1, alongHint: -1}
 }
 
 // AlongAfterS returns r.AlongAfterS(startAlongM, tS).
 func (w *Walker) AlongAfterS(tS float64) float64 {
-	return w.r.alongAtS(w.startS+tS, &w.timeSeg)
+	return w.r.alongAtS(w.startS+tS, &w.timeHint)
 }
 
 // SegmentAt returns r.SegmentAt(alongM).
 func (w *Walker) SegmentAt(alongM float64) int {
-	return segmentFrom(w.r.startM, w.r.clampAlong(alongM), &w.alongSeg)
+	return segmentFrom(w.r.startM, w.r.clampAlong(alongM), &w.alongHint)
 }
 
 // PointAt returns r.PointAt(alongM).
 func (w *Walker) PointAt(alongM float64) orb.Point {
-	return w.r.pointAt(alongM, &w.alongSeg)
+	return w.r.pointAt(alongM, &w.alongHint)
 }
 
 // NextTurnDistM returns NextTurnDistM(turns, alongM); turns must be the same
 // slice at every call.
 func (w *Walker) NextTurnDistM(turns []float64, alongM float64) (distM float64, ok bool) {
-	const walk = 8
-	i := w.turn
-	switch {
-	case i < 0 || i > len(turns) || alongM != alongM || (i > 0 && turns[i-1] > alongM):
-		i = firstAbove(turns, alongM)
-	default:
-		for n := 0; i < len(turns) && turns[i] <= alongM; n++ {
-			if n == walk {
-				i += firstAbove(turns[i:], alongM)
-				break
-			}
-			i++
-		}
-	}
-	w.turn = i
-	return nextTurn(turns, alongM, i)
+	return nextTurn(turns, alongM, firstAboveFrom(turns, alongM, &w.turnHint))
 }
