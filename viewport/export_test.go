@@ -7,14 +7,10 @@ import "math"
 // at every tick. It is the test oracle of the indexed search and the
 // baseline of its benchmark.
 func TimelineNaive(d *Drive, ms []Marker) ([]MarkerTimeline, error) {
-	if err := d.Validate(); err != nil {
-		return nil, err
-	}
-	merc, err := markerPoints(ms)
+	r, err := newRun(d, ms)
 	if err != nil {
 		return nil, err
 	}
-	r := newDriveRun(d, ms, merc)
 	r.see = func(r *driveRun, k int32, v *View) {
 		full, err := Prepare(v.cam)
 		if err != nil {
@@ -33,14 +29,10 @@ func TimelineNaive(d *Drive, ms []Marker) ([]MarkerTimeline, error) {
 // search finds exactly the markers ProjectMercator puts in view, each
 // once. It returns the first tick where it does not and the marker, or −1.
 func TimelineChecked(d *Drive, ms []Marker) (out []MarkerTimeline, badTick, badMarker int, err error) {
-	if err := d.Validate(); err != nil {
-		return nil, -1, -1, err
-	}
-	merc, err := markerPoints(ms)
+	r, err := newRun(d, ms)
 	if err != nil {
 		return nil, -1, -1, err
 	}
-	r := newDriveRun(d, ms, merc)
 	badTick, badMarker = -1, -1
 	count := make([]int, len(ms))
 	r.see = func(r *driveRun, k int32, v *View) {
@@ -49,7 +41,7 @@ func TimelineChecked(d *Drive, ms []Marker) (out []MarkerTimeline, badTick, badM
 		for _, i := range r.visible {
 			count[i]++
 		}
-		for i, m := range merc {
+		for i, m := range r.merc {
 			want := 0
 			if v.ProjectMercator(m).InView() {
 				want = 1
@@ -72,8 +64,6 @@ func QuickTest(v *View, m Mercator) (sure, in bool, distM float64, ok bool) {
 		return false, false, 0, false
 	}
 	q := v.quickOf(&uv)
-	dx, dy := m.X-q.tx, m.Y-q.ty
-	w := q.wX*dx + q.wY*dy
-	d := max(math.Abs(w-q.vMid)-q.halfV, q.aX*dx+q.aY*dy+q.aC, q.bX*dx+q.bY*dy+q.bC)
+	d := q.signedPx(m.X-q.tx, m.Y-q.ty)
 	return math.Abs(d) > q.tolPx, d < 0, math.Abs(d) * q.invScale, true
 }

@@ -150,6 +150,15 @@ type MarkerTimeline struct {
 // pitch of the rules fed by the current speed and the distance to the next
 // turn. Memory grows with markers + ticks, not their product.
 func Timeline(d *Drive, ms []Marker) ([]MarkerTimeline, error) {
+	r, err := newRun(d, ms)
+	if err != nil {
+		return nil, err
+	}
+	return r.run()
+}
+
+// newRun validates d and ms and returns the run of the drive.
+func newRun(d *Drive, ms []Marker) (*driveRun, error) {
 	if err := d.Validate(); err != nil {
 		return nil, err
 	}
@@ -157,7 +166,7 @@ func Timeline(d *Drive, ms []Marker) ([]MarkerTimeline, error) {
 	if err != nil {
 		return nil, err
 	}
-	return newDriveRun(d, ms, merc).run()
+	return newDriveRun(d, ms, merc), nil
 }
 
 // markerPoints validates ms and returns their Mercator points.
@@ -302,18 +311,16 @@ func (r *driveRun) run() ([]MarkerTimeline, error) {
 // marker keeps its answer until the footprint has moved, in total, as far
 // as its safe distance, and is not tested again until then.
 //
-// The loop runs for every marker near the view at every tick, so the quick
-// test (see quickTest) is written out here with its terms in locals, and
+// The loop runs for every marker near the view at every tick, so it works
+// on a local copy of the quick test (see quickTest; signedPx inlines), and
 // results go into slices sized for every marker: nothing in the loop calls
 // out.
 func (r *driveRun) testSpan(k int32, sp span, q *quickTest) {
 	vis, unsure := r.visible, r.unsure
 	nv, nu := len(vis), len(unsure)
 	vis, unsure = vis[:cap(vis)], unsure[:cap(unsure)]
-	tx, ty, wX, wY := q.tx-sp.shiftM, q.ty, q.wX, q.wY
-	vMid, halfV := q.vMid, q.halfV
-	aX, aY, aC, bX, bY, bC := q.aX, q.aY, q.aC, q.bX, q.bY, q.bC
-	tol := q.tolPx
+	ql := *q // a local copy, whose fields the loop keeps at hand
+	tx, ty, tol := q.tx-sp.shiftM, q.ty, q.tolPx
 	useSafe := sp.shiftM == 0
 	moved := r.moved
 	// Safe distances in world pixels become Mercator metres, shrunk by 1e-9
@@ -338,9 +345,7 @@ func (r *driveRun) testSpan(k int32, sp span, q *quickTest) {
 			nv += b2i(safeIn[j])
 			continue
 		}
-		dx, dy := m.X-tx, m.Y-ty
-		w := wX*dx + wY*dy
-		d := max(math.Abs(w-vMid)-halfV, aX*dx+aY*dy+aC, bX*dx+bY*dy+bC)
+		d := ql.signedPx(m.X-tx, m.Y-ty)
 		in := d < -tol
 		vis[nv] = orig[j]
 		nv += b2i(in)

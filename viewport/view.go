@@ -297,6 +297,13 @@ type quickTest struct {
 	invScale   float64 // Mercator metres per world pixel
 }
 
+// signedPx returns d, the largest of the four signed distances (world
+// pixels, positive outside), for the Mercator offset (dx, dy) from T.
+func (q *quickTest) signedPx(dx, dy float64) float64 {
+	w := q.wX*dx + q.wY*dy
+	return max(math.Abs(w-q.vMid)-q.halfV, q.aX*dx+q.aY*dy+q.aC, q.bX*dx+q.bY*dy+q.bC)
+}
+
 // quickOf returns the quick test of the view, whose trapezoid (not empty)
 // is uv.
 func (v *View) quickOf(uv *[4][2]float64) quickTest {
