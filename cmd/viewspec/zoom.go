@@ -90,14 +90,12 @@ func readSamples(name string) ([]rules.Sample, error) {
 	if name == "" {
 		return nil, errors.New("--speeds CSV is required")
 	}
-	var r io.Reader
 	f, err := os.Open(name)
 	if err != nil {
 		return nil, err
 	}
 	defer f.Close()
-	r = f
-	cr := csv.NewReader(r)
+	cr := csv.NewReader(f)
 	cr.FieldsPerRecord = -1
 	cr.Comment = '#'
 	cr.TrimLeadingSpace = true
