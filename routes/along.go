@@ -103,10 +103,20 @@ func (r *Route) alongAtS(t float64, hint *int) float64 {
 // heading changes by at least minAngleDeg degrees, measured the short way round (so a change from
 // 350° to 10° is 20°, and a U-turn is 180°). A threshold ≤ 0 marks every interior vertex; NaN marks
 // none.
+// The turn at each vertex is measured once, when the route is made.
 func (r *Route) Turns(minAngleDeg float64) []float64 {
-	var out []float64
+	n := 0
 	for k := 1; k < len(r.segs); k++ {
-		if HeadingChangeDeg(r.segs[k-1].headingDeg, r.segs[k].headingDeg) >= minAngleDeg {
+		if r.segs[k].turnInDeg >= minAngleDeg {
+			n++
+		}
+	}
+	if n == 0 {
+		return nil
+	}
+	out := make([]float64, 0, n)
+	for k := 1; k < len(r.segs); k++ {
+		if r.segs[k].turnInDeg >= minAngleDeg {
 			out = append(out, r.startM[k])
 		}
 	}

@@ -22,6 +22,7 @@ type segment struct {
 	lengthM    float64 // WGS84 geodesic length between the ends, metres
 	speedMps   float64
 	headingDeg float64 // Mercator-plane bearing, degrees clockwise from north in [0, 360)
+	turnInDeg  float64 // HeadingChangeDeg from the segment before (0 for the first), for Turns
 }
 
 // arc is the geometry of a segment that closest-point queries read.
@@ -150,6 +151,9 @@ func New(points []orb.Point, speedsMps []float64) (*Route, error) {
 	m := len(r.segs)
 	r.startM = make([]float64, m+1)
 	r.startS = make([]float64, m+1)
+	for i := 1; i < m; i++ {
+		r.segs[i].turnInDeg = HeadingChangeDeg(r.segs[i-1].headingDeg, r.segs[i].headingDeg)
+	}
 	for i := range r.segs {
 		r.startM[i+1] = r.startM[i] + r.segs[i].lengthM
 		r.startS[i+1] = r.startS[i] + r.segs[i].lengthM/r.segs[i].speedMps
