@@ -67,3 +67,12 @@ func QuickTest(v *View, m Mercator) (sure, in bool, distM float64, ok bool) {
 	d := q.signedPx(m.X-q.tx, m.Y-q.ty)
 	return math.Abs(d) > q.tolPx, d < 0, math.Abs(d) * q.invScale, true
 }
+
+// Replace places v for c again, as the drive timeline does at every tick,
+// keeping the terms whose inputs did not change.
+func (v *View) Replace(c Camera) error {
+	if err := c.validateFields(); err != nil {
+		return err
+	}
+	return v.place(&c)
+}

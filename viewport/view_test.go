@@ -455,3 +455,55 @@ func TestQuickTestSureAndBound(t *testing.T) {
 		}
 	})
 }
+
+// Placing one View again and again, changing some of the camera's inputs
+// each time (as the drive timeline does), gives the very View that Prepare
+// builds from scratch: the kept terms are the same numbers. An error leaves
+// nothing kept.
+func TestPlaceAgainIsPrepare(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		var v viewport.View
+		c := props.Camera().Draw(t, "camera")
+		for step := range rapid.IntRange(1, 6).Draw(t, "steps") {
+			if step > 0 && rapid.Bool().Draw(t, "fail_step") {
+				// The anchor near the top at pitch 88° is above the
+				// horizon; the next step starts from the camera before.
+				bad := c
+				bad.Device.AnchorY, bad.PitchDeg = 0.02, 88
+				if _, err := viewport.Prepare(bad); err == nil {
+					t.Fatalf("step %d: %+v prepared, want an anchor error", step, bad)
+				}
+				if err := v.Replace(bad); err == nil {
+					t.Fatalf("step %d: %+v placed again, want an anchor error", step, bad)
+				}
+				continue
+			}
+			next := props.Camera().Draw(t, "next")
+			// Keep each input group of the camera before with some chance.
+			if rapid.Bool().Draw(t, "keep_device") {
+				next.Device = c.Device
+			}
+			if rapid.Bool().Draw(t, "keep_pitch") {
+				next.PitchDeg = c.PitchDeg
+			}
+			if rapid.Bool().Draw(t, "keep_zoom") {
+				next.Zoom = c.Zoom
+			}
+			if rapid.Bool().Draw(t, "keep_heading") {
+				next.HeadingDeg = c.HeadingDeg
+			}
+			if rapid.Bool().Draw(t, "keep_position") {
+				next.LatDeg, next.LonDeg = c.LatDeg, c.LonDeg
+			}
+			c = next
+			want, wantErr := viewport.Prepare(c)
+			err := v.Replace(c)
+			if (err != nil) != (wantErr != nil) {
+				t.Fatalf("step %d: placed again: %v; prepared: %v", step, err, wantErr)
+			}
+			if err == nil && v != want {
+				t.Fatalf("step %d: placed again\n%+v\nprepared\n%+v", step, v, want)
+			}
+		}
+	})
+}
