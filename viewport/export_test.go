@@ -17,9 +17,7 @@ func TimelineNaive(d *Drive, ms []Marker) ([]MarkerTimeline, error) {
 			panic(err) // place accepted the same camera
 		}
 		for i, m := range ms {
-			if sp := full.Project(m.Point); sp.InView() {
-				r.visible = append(r.visible, int32(i))
-			}
+			r.setIn(int32(i), full.Project(m.Point).InView())
 		}
 	}
 	return r.run()
@@ -38,15 +36,18 @@ func TimelineChecked(d *Drive, ms []Marker) (out []MarkerTimeline, badTick, badM
 	r.see = func(r *driveRun, k int32, v *View) {
 		r.seeIndexed(k, v)
 		clear(count)
-		for _, i := range r.visible {
+		for p, i := range r.visible {
 			count[i]++
+			if r.visPos[i] != int32(p) {
+				count[i] = -1 // the list and its positions disagree
+			}
 		}
 		for i, m := range r.merc {
 			want := 0
 			if v.ProjectMercator(m).InView() {
 				want = 1
 			}
-			if count[i] != want && badTick < 0 {
+			if (count[i] != want || r.in[i] != (want == 1)) && badTick < 0 {
 				badTick, badMarker = int(k), i
 			}
 		}
@@ -64,7 +65,7 @@ func QuickTest(v *View, m Mercator) (sure, in bool, distM float64, ok bool) {
 		return false, false, 0, false
 	}
 	q := v.quickOf(&uv)
-	d := q.signedPx(m.X-q.tx, m.Y-q.ty)
+	d := q.signedPx(ShortDXM(m.X-q.tx), m.Y-q.ty)
 	return math.Abs(d) > q.tolPx, d < 0, math.Abs(d) * q.invScale, true
 }
 

@@ -195,58 +195,78 @@ type driveRun struct {
 	d     *Drive
 	ms    []Marker
 	merc  []Mercator
-	grid  markerGrid
 	turns []float64
 
-	out     []MarkerTimeline
-	visTick []int32    // last tick each marker was in view; −1 never
-	prev    View       // the view at the tick before, for first-shown margins
-	shown   []int      // indices of the shown markers
-	unsure  []int32    // markers the quick test left to ProjectMercator
-	gMerc   []Mercator // merc in the grid's order
+	out   []MarkerTimeline
+	t     float64 // the tick's time, seconds
+	prev  View    // the view at the tick before, for first-shown margins
+	shown []int   // indices of the shown markers
 
-	// Safe distances (see testSpan): the footprint's total movement so far
-	// in this epoch (Mercator metres), its vertices at the tick before, and
-	// per marker the total movement up to which its answer holds. An epoch
-	// ends when the footprint's continuity does (empty, wrapped, first
-	// tick).
-	moved     float64
-	prevVerts [4]Mercator
+	// The markers in view at this tick: in per marker, and as a list in no
+	// particular order with each one's position in it (−1 when out).
+	in      []bool
+	visible []int32
+	visPos  []int32
+
+	// Safe distances (see seeIndexed), kept for an epoch, which ends when
+	// the footprint's continuity does (empty, wrapped, first tick): the
+	// footprint's vertices at the tick before, their total movement so far
+	// (Mercator metres), and the markers queued under the total at which
+	// each must be tested again.
 	prevOK    bool
-	safeUntil []float64
-	safeIn    []bool
-	visible   []int32 // indices in view at this tick
+	prevVerts [4]Mercator
+	moved     float64
+	safeUntil []float64 // per marker, the total movement up to which its answer holds
+	due       []int32   // room for the markers due at a tick
 
-	// see appends the markers in view at tick k to r.visible, each once;
-	// the indexed search by default.
+	// see brings r.in and r.visible up to tick k, through setIn; the
+	// indexed search by default.
 	see func(r *driveRun, k int32, v *View)
 }
 
 func newDriveRun(d *Drive, ms []Marker, merc []Mercator) *driveRun {
 	n := len(merc)
-	r := &driveRun{d: d, ms: ms, merc: merc, grid: newMarkerGrid(merc),
-		turns:   d.Route.Turns(d.Rules.Turn.MinAngleDeg),
-		out:     make([]MarkerTimeline, n),
-		visTick: make([]int32, n),
-		shown:   make([]int, 0, d.Cap),
-		// Room for every marker (a marker is tested once a tick, and the
-		// two copies across the antimeridian are never both near a view
-		// that does not wrap), so testSpan writes without growing them.
-		visible: make([]int32, 0, 2*n),
-		unsure:  make([]int32, 0, 2*n),
-
+	r := &driveRun{d: d, ms: ms, merc: merc,
+		turns:     d.Route.Turns(d.Rules.Turn.MinAngleDeg),
+		out:       make([]MarkerTimeline, n),
+		shown:     make([]int, 0, d.Cap),
+		in:        make([]bool, n),
+		visible:   make([]int32, 0, n),
+		visPos:    make([]int32, n),
 		safeUntil: make([]float64, n),
-		safeIn:    make([]bool, n),
+		due:       make([]int32, n),
 		see:       (*driveRun).seeIndexed,
 	}
-	for i := range n {
-		r.visTick[i], r.safeUntil[i] = -1, math.Inf(-1)
-	}
-	r.gMerc = make([]Mercator, n)
-	for j, i := range r.grid.items {
-		r.gMerc[j] = merc[i]
+	for i := range r.visPos {
+		r.visPos[i] = -1
 	}
 	return r
+}
+
+// setIn records whether marker i is in view at this tick.
+func (r *driveRun) setIn(i int32, in bool) {
+	if in != r.in[i] {
+		r.flip(i)
+	}
+}
+
+// flip turns marker i's answer over: into the visible list (its first
+// visible time set), or out of it.
+func (r *driveRun) flip(i int32) {
+	in := !r.in[i]
+	r.in[i] = in
+	if in {
+		r.visPos[i] = int32(len(r.visible))
+		r.visible = append(r.visible, i)
+		if o := &r.out[i]; !o.Visible {
+			o.Visible, o.FirstVisibleS = true, r.t
+		}
+		return
+	}
+	p, last := r.visPos[i], r.visible[len(r.visible)-1]
+	r.visible[p], r.visPos[last] = last, p
+	r.visible = r.visible[:len(r.visible)-1]
+	r.visPos[i] = -1
 }
 
 func (r *driveRun) run() ([]MarkerTimeline, error) {
@@ -300,99 +320,21 @@ func (r *driveRun) run() ([]MarkerTimeline, error) {
 	return r.out, nil
 }
 
-// testSpan decides which markers of items are in view at tick k, their X
-// shifted by shiftM (0, or a world's width for the copies across the
-// antimeridian). Unsure answers are left in r.unsure for ProjectMercator.
-//
-// A marker tested at X unshifted also gets a safe distance: the quick
-// test's bound on its distance to the footprint's boundary. The footprint
-// is convex and its vertices move by at most δ a tick, so no point of it
-// moves farther than δ (every point is a fixed blend of the vertices): the
-// marker keeps its answer until the footprint has moved, in total, as far
-// as its safe distance, and is not tested again until then.
-//
-// The loop runs for every marker near the view at every tick, so it works
-// on a local copy of the quick test (see quickTest; signedPx inlines), and
-// results go into slices sized for every marker: nothing in the loop calls
-// out.
-func (r *driveRun) testSpan(k int32, sp span, q *quickTest) {
-	vis, unsure := r.visible, r.unsure
-	nv, nu := len(vis), len(unsure)
-	vis, unsure = vis[:cap(vis)], unsure[:cap(unsure)]
-	ql := *q // a local copy, whose fields the loop keeps at hand
-	tx, ty, tol := q.tx-sp.shiftM, q.ty, q.tolPx
-	useSafe := sp.shiftM == 0
-	moved := r.moved
-	// Safe distances in world pixels become Mercator metres, shrunk by 1e-9
-	// and 1 mm for the rounding of the distances and of the running total.
-	toM := q.invScale * (1 - 1e-9)
-	const slackM = 1e-3
-	// Everything per marker is kept in grid order, so a span is a
-	// contiguous run of each slice.
-	merc := r.gMerc[sp.lo:sp.hi]
-	orig := r.grid.items[sp.lo:sp.hi]
-	safeUntil := r.safeUntil[sp.lo:sp.hi]
-	safeIn := r.safeIn[sp.lo:sp.hi]
-	safeUntil = safeUntil[:len(merc)]
-	safeIn = safeIn[:len(merc)]
-	orig = orig[:len(merc)]
-	// Whether a marker is in view is mixed from one to the next, so the
-	// visible list is written at every marker and advanced by the answer,
-	// without a branch on it.
-	for j, m := range merc {
-		if useSafe && moved < safeUntil[j] {
-			vis[nv] = orig[j]
-			nv += b2i(safeIn[j])
-			continue
-		}
-		d := ql.signedPx(m.X-tx, m.Y-ty)
-		in := d < -tol
-		vis[nv] = orig[j]
-		nv += b2i(in)
-		if useSafe {
-			safeIn[j] = in
-			safeUntil[j] = moved + math.Abs(d)*toM - slackM
-		}
-		if math.Abs(d) <= tol { // unsure: rare
-			if useSafe {
-				safeUntil[j] = math.Inf(-1) // test again next tick
-			}
-			unsure[nu] = orig[j]
-			nu++
-		}
-	}
-	r.visible, r.unsure = vis[:nv], unsure[:nu]
-}
-
-// b2i returns 1 for true and 0 for false.
-func b2i(b bool) int {
-	if b {
-		return 1
-	}
-	return 0
-}
-
 // tick finds who is in view at tick k and gives out the slots.
 func (r *driveRun) tick(k int, t float64, v *View) {
-	k32 := int32(k)
-	r.visible = r.visible[:0]
-	r.see(r, k32, v)
-	for _, i := range r.visible {
-		r.visTick[i] = k32
-		if !r.out[i].Visible {
-			r.out[i].Visible, r.out[i].FirstVisibleS = true, t
-		}
-	}
+	r.t = t
+	r.see(r, int32(k), v)
 	// Shown markers keep their slot while visible.
 	kept := r.shown[:0]
 	for _, i := range r.shown {
-		if r.visTick[i] == k32 {
+		if r.in[i] {
 			kept = append(kept, i)
 		}
 	}
 	r.shown = kept
-	// Free slots go to visible, not-shown markers by rank (see ahead).
-	for len(r.shown) < r.d.Cap {
+	// Free slots go to visible, not-shown markers by rank (see ahead); the
+	// shown are visible, so there is one while more are visible.
+	for len(r.shown) < r.d.Cap && len(r.visible) > len(r.shown) {
 		best := -1
 		for _, i32 := range r.visible {
 			i := int(i32)
@@ -425,64 +367,99 @@ func (r *driveRun) tick(k int, t float64, v *View) {
 	}
 }
 
-// seeIndexed tests the markers whose grid cells meet the footprint's
-// bounding box (all of them when the view wraps round the world).
+// seeIndexed brings the in-view answers up to tick k, testing only the
+// markers whose safe distance the footprint has moved past (all of them
+// when an epoch starts).
+//
+// A tested marker gets a safe distance: the quick test's bound on its
+// distance to the footprint's boundary. The footprint is convex and its
+// vertices move by at most δ a tick, so no point of it moves farther than
+// δ (every point is a fixed blend of the vertices): the marker keeps its
+// answer until the footprint has moved, in total, as far as its safe
+// distance. The quick test takes the copy of the marker nearest T, as
+// ProjectMercator does; another copy lies at least half the world's width
+// from T, so at least πR − L from a footprint that reaches L east or west
+// of T, which caps the safe distance. The total is rounded up and the keys
+// down, so rounding never lengthens a safe distance.
 func (r *driveRun) seeIndexed(k int32, v *View) {
-	r.unsure = r.unsure[:0]
-	// The trapezoid once: its Mercator vertices for the safe distances and
-	// the bounding box, and its rows for the quick test.
 	uv, _, _, ok := v.trapezoid()
+	if !ok || v.wrapped {
+		// No continuity: test every marker with ProjectMercator.
+		r.prevOK = false
+		for i, m := range r.merc {
+			r.setIn(int32(i), ok && v.ProjectMercator(m).InView())
+		}
+		return
+	}
+	// The trapezoid's Mercator vertices, how far they moved, and how far
+	// east or west of T they reach.
 	var verts [4]Mercator
-	if ok {
-		for i, q := range uv {
-			verts[i] = v.mercatorOf(q[0], q[1])
-		}
+	var d2, reachM float64
+	for i, p := range uv {
+		verts[i] = v.mercatorOf(p[0], p[1])
+		dx, dy := ShortDXM(verts[i].X-r.prevVerts[i].X), verts[i].Y-r.prevVerts[i].Y
+		d2 = max(d2, dx*dx+dy*dy)
+		reachM = max(reachM, math.Abs(verts[i].X-v.target.X))
 	}
-	if !ok || v.wrapped || !r.prevOK {
-		// A new epoch: no earlier safe distance holds.
-		for j := range r.safeUntil {
-			r.safeUntil[j] = math.Inf(-1)
-		}
-		r.moved = 0
+	if r.prevOK {
+		r.moved = math.Nextafter(r.moved+math.Sqrt(d2), math.Inf(1))
 	} else {
-		// The largest squared move, then one root (its rounding, a few
-		// parts in 1e16, is far inside the safe distances' slack).
-		var d2 float64
-		for j, p := range verts {
-			dx, dy := p.X-r.prevVerts[j].X, p.Y-r.prevVerts[j].Y
-			d2 = max(d2, dx*dx+dy*dy)
+		// A new epoch: no earlier safe distance holds.
+		r.moved = 0
+		for i := range r.safeUntil {
+			r.safeUntil[i] = math.Inf(-1)
 		}
-		r.moved += math.Sqrt(d2)
 	}
-	r.prevVerts, r.prevOK = verts, ok && !v.wrapped
-	if v.wrapped {
-		for i := range r.merc {
-			if v.ProjectMercator(r.merc[i]).InView() {
-				r.visible = append(r.visible, int32(i))
-			}
-		}
-		return
-	}
-	if !ok {
-		return
-	}
+	r.prevOK, r.prevVerts = true, verts
+
+	// The loop runs for every marker due, so it works on a local copy of
+	// the quick test (signedPx inlines).
 	q := v.quickOf(&uv)
-	minX, minY, maxX, maxY := verts[0].X, verts[0].Y, verts[0].X, verts[0].Y
-	for _, p := range verts[1:] {
-		minX, maxX = min(minX, p.X), max(maxX, p.X)
-		minY, maxY = min(minY, p.Y), max(maxY, p.Y)
+	tx, ty, tol := q.tx, q.ty, q.tolPx
+	// Safe distances in world pixels become Mercator metres, shrunk by 1e-9
+	// and 1 mm for the rounding of the distances and of the points.
+	toM := q.invScale * (1 - 1e-9)
+	const slackM = 1e-3
+	capM := max(0, worldWidthM/2-reachM)
+	// The markers due, without a branch on each (keys are never NaN).
+	moved := r.moved
+	safeUntil := r.safeUntil
+	due := r.due[:len(safeUntil)]
+	nd := 0
+	for i, su := range safeUntil {
+		due[nd] = int32(i)
+		nd += b2i(su <= moved)
 	}
-	// Pad by a millimetre so rounding at the edge cannot cull a marker the
-	// projection puts in view.
-	const padM = 1e-3
-	for _, sp := range r.grid.spans(minX-padM, minY-padM, maxX+padM, maxY+padM) {
-		r.testSpan(k, sp, &q)
-	}
-	for _, i := range r.unsure {
-		if v.ProjectMercator(r.merc[i]).InView() {
-			r.visible = append(r.visible, i)
+	for _, i := range due[:nd] {
+		m := r.merc[i]
+		d := q.signedPx(ShortDXM(m.X-tx), m.Y-ty)
+		if math.Abs(d) <= tol {
+			// Unsure (rare): ask ProjectMercator, and again next tick.
+			r.setIn(i, v.ProjectMercator(m).InView())
+			safeUntil[i] = math.Inf(-1)
+			continue
+		}
+		r.setIn(i, d < 0)
+		safeM := math.Abs(d) * toM
+		if safeM > capM {
+			safeM = capM
+		}
+		// The float below the key, so that its rounding cannot lengthen
+		// the safe distance; a key not above 0 is due next tick.
+		if key := moved + safeM - slackM; key > 0 {
+			safeUntil[i] = math.Float64frombits(math.Float64bits(key) - 1)
+		} else {
+			safeUntil[i] = math.Inf(-1)
 		}
 	}
+}
+
+// b2i returns 1 for true and 0 for false.
+func b2i(b bool) int {
+	if b {
+		return 1
+	}
+	return 0
 }
 
 // ahead reports whether marker i ranks before marker j for a free slot:

@@ -322,6 +322,68 @@ func TestTimelineIndexedExact(t *testing.T) {
 	})
 }
 
+// The same at the scale of the world: zoom 0.5 to 8, markers anywhere
+// between 75° S and 75° N, drives at the antimeridian that turn and change
+// zoom and pitch quickly, so that views reach across half the world (and
+// wrap), copies of markers a world apart meet the footprint, and safe
+// distances run into their cap.
+func TestTimelineIndexedExactWorld(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		lat0 := rapid.Float64Range(-60, 60).Draw(t, "lat0")
+		pts := []orb.Point{{rapid.Float64Range(179, 180).Draw(t, "lon0"), lat0}}
+		for i := range rapid.IntRange(1, 4).Draw(t, "segments") {
+			p := pts[i]
+			ang := rapid.Float64Range(0, 2*math.Pi).Draw(t, "dir")
+			step := rapid.Float64Range(0.5, 5).Draw(t, "step_deg")
+			lon := p[0] + step*math.Sin(ang)
+			if lon > 180 {
+				lon -= 360
+			} else if lon < -180 {
+				lon += 360
+			}
+			pts = append(pts, orb.Point{lon, max(-70, min(70, p[1]+step*math.Cos(ang)))})
+		}
+		r, err := routes.New(pts, []float64{rapid.Float64Range(1000, 20000).Draw(t, "speed_mps")})
+		if err != nil {
+			t.Skip(err.Error())
+		}
+		zoom := rapid.Float64Range(0.5, 8).Draw(t, "zoom")
+		rs := oneBand(zoom, rapid.SampledFrom([]float64{0, 40, 60}).Draw(t, "pitch"))
+		rs.Bands = []rules.Band{
+			{BelowKmh: rules.Edge(rapid.Float64Range(3600, 72000).Draw(t, "edge_kmh")), Zoom: zoom, PitchDeg: rs.Bands[0].PitchDeg},
+			{Zoom: max(0, zoom-rapid.Float64Range(0, 3).Draw(t, "zoom_drop")), PitchDeg: rapid.Float64Range(0, 70).Draw(t, "fast_pitch")},
+		}
+		rs.MaxZoomRatePerS, rs.MaxPitchRateDegPerS = 1, 20
+		rs.MaxTurnRateDegPerS = rapid.Float64Range(10, 200).Draw(t, "turn_rate")
+		dev := viewport.NewDevice(rapid.Float64Range(200, 2000).Draw(t, "w"), rapid.Float64Range(300, 900).Draw(t, "h"), 45)
+		dev.AnchorY = rapid.Float64Range(0.5, 0.8).Draw(t, "anchor_y")
+		d := viewport.NewDrive(r, 0, dev, rs)
+		d.HorizonS, d.TickS, d.BucketEdgesS = 20, rapid.SampledFrom([]float64{0.5, 0.25}).Draw(t, "tick_s"), [2]float64{5, 10}
+		d.Cap = rapid.IntRange(1, 5).Draw(t, "cap")
+		ms := make([]viewport.Marker, rapid.IntRange(1, 40).Draw(t, "markers"))
+		for i := range ms {
+			ms[i] = viewport.Marker{ID: fmt.Sprintf("w%02d", i),
+				Point: orb.Point{rapid.Float64Range(-180, 180).Draw(t, "lon"), rapid.Float64Range(-75, 75).Draw(t, "lat")}}
+		}
+		got, k, i, err := viewport.TimelineChecked(&d, ms)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if k >= 0 {
+			t.Fatalf("tick %d: marker %d: found in view %s", k, i, "unlike ProjectMercator")
+		}
+		naive, err := viewport.TimelineNaive(&d, ms)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for j := range got {
+			if got[j] != naive[j] {
+				t.Fatalf("%s: indexed %+v, naive %+v", ms[j].ID, got[j], naive[j])
+			}
+		}
+	})
+}
+
 // Doubling the cap never lowers any marker's shown time; the answer does
 // not depend on the order the markers are given in.
 func TestTimelineCapMonotoneAndOrderFree(t *testing.T) {

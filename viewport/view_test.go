@@ -420,7 +420,12 @@ func TestQuickTestSureAndBound(t *testing.T) {
 			m.X, m.Y = m.X/wsum, m.Y/wsum
 		}
 		size := math.Hypot(vs[2].X-vs[0].X, vs[2].Y-vs[0].Y)
+		// Near the boundary, or anywhere up to a quarter of the world away
+		// (the timeline asks the quick test of every marker).
 		off := size * props.LogUniform(1e-12, 2).Draw(t, "offset")
+		if rapid.Bool().Draw(t, "far") {
+			off = size * props.LogUniform(1, max(2, math.Pi*viewport.EarthRadiusM/2/size)).Draw(t, "far_factor")
+		}
 		ang := rapid.Float64Range(0, 2*math.Pi).Draw(t, "angle")
 		if rapid.Bool().Draw(t, "move") {
 			m.X += off * math.Cos(ang)
