@@ -96,7 +96,7 @@ func (r *Route) alongAtS(t float64, hint *int) float64 {
 		return r.LengthM()
 	}
 	j := segmentFrom(r.startS, t, hint)
-	return math.Min(r.startM[j+1], r.startM[j]+(t-r.startS[j])*r.segs[j].speedMps)
+	return min(r.startM[j+1], r.startM[j]+(t-r.startS[j])*r.segs[j].speedMps)
 }
 
 // Turns returns the along-route positions, ascending, of the interior vertices where the Mercator

@@ -184,7 +184,7 @@ func (r *Route) clampAlong(alongM float64) float64 {
 	if !(alongM > 0) { // also NaN
 		return 0
 	}
-	return math.Min(alongM, r.LengthM())
+	return min(alongM, r.LengthM())
 }
 
 // userCache returns the user's cache, recomputing it if the exported fields moved.

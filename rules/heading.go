@@ -40,6 +40,9 @@ func TurnHeadingDeg(currentDeg, targetDeg, maxStepDeg float64) float64 {
 
 // norm360 maps a finite angle in degrees into [0, 360); NaN stays NaN.
 func norm360(deg float64) float64 {
+	if deg > 0 && deg < 360 {
+		return deg // as math.Mod would: most headings are already in range
+	}
 	r := math.Mod(deg, 360)
 	if r < 0 {
 		r += 360

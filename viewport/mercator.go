@@ -110,5 +110,5 @@ func GroundScale(latDeg float64) float64 {
 }
 
 func clampLatDeg(lat float64) float64 {
-	return math.Max(-MaxLatDeg, math.Min(MaxLatDeg, lat))
+	return max(-MaxLatDeg, min(MaxLatDeg, lat))
 }

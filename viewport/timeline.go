@@ -430,26 +430,26 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 		due[nd] = int32(i)
 		nd += b2i(su <= moved)
 	}
+	merc, inView := r.merc, r.in
 	for _, i := range due[:nd] {
-		m := r.merc[i]
+		m := merc[i]
 		d := q.signedPx(ShortDXM(m.X-tx), m.Y-ty)
-		if math.Abs(d) <= tol {
-			// Unsure (rare): ask ProjectMercator, and again next tick.
-			r.setIn(i, v.ProjectMercator(m).InView())
-			safeUntil[i] = math.Inf(-1)
-			continue
-		}
-		r.setIn(i, d < 0)
-		safeM := math.Abs(d) * toM
+		ad := math.Abs(d)
+		safeM := ad * toM
 		if safeM > capM {
 			safeM = capM
 		}
-		// The float below the key, so that its rounding cannot lengthen
-		// the safe distance; a key not above 0 is due next tick.
-		if key := moved + safeM - slackM; key > 0 {
-			safeUntil[i] = math.Float64frombits(math.Float64bits(key) - 1)
-		} else {
-			safeUntil[i] = math.Inf(-1)
+		// The key is shrunk by 2⁻⁵¹ of itself, to below the float before
+		// it, so that its rounding cannot lengthen the safe distance (a key
+		// not above 0 is due next tick all the same).
+		safeUntil[i] = (moved + safeM - slackM) * (1 - 0x1p-51)
+		in := d < 0
+		if ad <= tol {
+			// Unsure (rare): ask ProjectMercator, and again next tick.
+			in, safeUntil[i] = v.ProjectMercator(m).InView(), math.Inf(-1)
+		}
+		if in != inView[i] {
+			r.flip(i)
 		}
 	}
 }
