@@ -199,7 +199,7 @@ type driveRun struct {
 
 	out   []MarkerTimeline
 	t     float64 // the tick's time, seconds
-	prev  View    // the view at the tick before, for first-shown margins
+	prev  *View   // the view at the tick before, for first-shown margins
 	shown []int   // indices of the shown markers
 
 	// The markers in view at this tick: in per marker, and as a list in no
@@ -276,7 +276,9 @@ func (r *driveRun) run() ([]MarkerTimeline, error) {
 	lengthM := rt.LengthM()
 	var st rules.State
 	var heading float64
-	var v View
+	// Two views, placed at alternate ticks, so that the one before stays
+	// at hand without a copy.
+	var views [2]View
 	cam := Camera{Device: d.Device}
 	walk := rt.Walk(d.StartAlongM)
 	for k := 0; k <= n; k++ {
@@ -304,12 +306,13 @@ func (r *driveRun) run() ([]MarkerTimeline, error) {
 		pos := walk.PointAt(along)
 		cam.LatDeg, cam.LonDeg = pos[1], pos[0]
 		cam.HeadingDeg, cam.PitchDeg, cam.Zoom = heading, st.PitchDeg(), st.Zoom()
+		v := &views[k&1]
 		if err := v.place(&cam); err != nil {
 			return nil, fmt.Errorf("at t = %s s: %w", FormatNumber(t), err)
 		}
-		r.tick(k, t, &v)
+		r.tick(k, t, v)
 		if d.OnTick != nil {
-			d.OnTick(k, &v, r.shown)
+			d.OnTick(k, v, r.shown)
 		}
 		if d.OnBand != nil {
 			d.OnBand(k, st.Band())

@@ -116,7 +116,9 @@ func (v *View) place(c *Camera) error {
 		X: v.user.X - (v.uA*v.cosH+v.vA*v.sinH)/v.scale,
 		Y: v.user.Y - (-v.uA*v.sinH+v.vA*v.cosH)/v.scale,
 	}
-	v.wrapped = v.reachesHalfWorld()
+	if !(samePitch && sameZoom && sameHeading) {
+		v.wrapped = v.reachesHalfWorld() // it does not depend on the position
+	}
 	return nil
 }
 
