@@ -60,11 +60,11 @@ func TimelineChecked(d *Drive, ms []Marker) (out []MarkerTimeline, badTick, badM
 // is sure, the answer, and its distance bound in Mercator metres. ok is
 // false when the footprint is empty.
 func QuickTest(v *View, m Mercator) (sure, in bool, distM float64, ok bool) {
-	uv, _, _, ok := v.trapezoid()
-	if !ok {
+	s := v.quickShapeOf()
+	if !s.ok {
 		return false, false, 0, false
 	}
-	q := v.quickOf(&uv)
+	q := v.quickOf(&s)
 	d := q.signedPx(ShortDXM(m.X-q.tx), m.Y-q.ty)
 	return math.Abs(d) > q.tolPx, d < 0, math.Abs(d) * q.invScale, true
 }

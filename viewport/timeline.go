@@ -213,11 +213,14 @@ type driveRun struct {
 	// footprint's vertices at the tick before, their total movement so far
 	// (Mercator metres), and the markers queued under the total at which
 	// each must be tested again.
-	prevOK    bool
-	prevVerts [4]Mercator
-	moved     float64
-	safeUntil []float64 // per marker, the total movement up to which its answer holds
-	due       []int32   // room for the markers due at a tick
+	prevOK     bool
+	prevVerts  [4]Mercator
+	shape      quickShape
+	shapePitch uint64 // the pitch's bits shape was made for
+	shapeOK    bool
+	moved      float64
+	safeUntil  []float64 // per marker, the total movement up to which its answer holds
+	due        []int32   // room for the markers due at a tick
 
 	// see brings r.in and r.visible up to tick k, through setIn; the
 	// indexed search by default.
@@ -385,12 +388,19 @@ func (r *driveRun) tick(k int, t float64, v *View) {
 // of T, which caps the safe distance. The total is rounded up and the keys
 // down, so rounding never lengthens a safe distance.
 func (r *driveRun) seeIndexed(k int32, v *View) {
-	uv, _, _, ok := v.trapezoid()
-	if !ok || v.wrapped {
-		// No continuity: test every marker with ProjectMercator.
+	// The quick test's shape, kept while the pitch stays (the device does
+	// not change in a drive).
+	if pb := math.Float64bits(v.cam.PitchDeg); !r.shapeOK || pb != r.shapePitch {
+		r.shape, r.shapePitch, r.shapeOK = v.quickShapeOf(), pb, true
+	}
+	uv := &r.shape.uv
+	if !r.shape.ok || v.wrapped {
+		// No continuity: ask ProjectMercator of every marker (an empty
+		// trapezoid may still have a row of ground on the screen, where
+		// the far row meets the clear area's bottom).
 		r.prevOK = false
 		for i, m := range r.merc {
-			r.setIn(int32(i), ok && v.ProjectMercator(m).InView())
+			r.setIn(int32(i), v.ProjectMercator(m).InView())
 		}
 		return
 	}
@@ -417,7 +427,7 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 
 	// The loop runs for every marker due, so it works on a local copy of
 	// the quick test (signedPx inlines).
-	q := v.quickOf(&uv)
+	q := v.quickOf(&r.shape)
 	tx, ty, tol := q.tx, q.ty, q.tolPx
 	// Safe distances in world pixels become Mercator metres, shrunk by 1e-9
 	// and 1 mm for the rounding of the distances and of the points.

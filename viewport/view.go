@@ -323,27 +323,50 @@ func (q *quickTest) signedPx(dx, dy float64) float64 {
 	return max(math.Abs(w-q.vMid)-q.halfV, q.aX*dx+q.aY*dy+q.aC, q.bX*dx+q.bY*dy+q.bC)
 }
 
-// quickOf returns the quick test of the view, whose trapezoid (not empty)
-// is uv.
-func (v *View) quickOf(uv *[4][2]float64) quickTest {
+// quickShape is what the quick test takes from the device and the pitch
+// alone: the trapezoid in the ground frame (ok false when it is empty),
+// the sides' gradient lengths, and the sure margin. The drive timeline
+// keeps it while the pitch stays.
+type quickShape struct {
+	uv     [4][2]float64
+	ok     bool
+	ga, gb float64 // 1 / the left and right sides' gradient lengths
+	tolPx  float64
+}
+
+// quickShapeOf returns the quick test's shape of the view.
+func (v *View) quickShapeOf() quickShape {
+	var s quickShape
+	if s.uv, _, _, s.ok = v.trapezoid(); !s.ok {
+		return s
+	}
+	f, sinP := v.focal, v.sinP
+	s.ga = 1 / math.Hypot(f, v.leftC*sinP)
+	s.gb = 1 / math.Hypot(f, v.rightC*sinP)
+	span := f
+	for _, p := range s.uv {
+		span += math.Abs(p[0]) + math.Abs(p[1])
+	}
+	s.tolPx = 1e-9 * span
+	return s
+}
+
+// quickOf returns the quick test of the view, whose shape s (not empty)
+// is from quickShapeOf.
+func (v *View) quickOf(s *quickShape) quickTest {
 	f, sinP := v.focal, v.sinP
 	sc, ss := v.sCosH, v.sSinH
+	ga, gb := s.ga, s.gb
 	// u = sc·dx − ss·dy and v = ss·dx + sc·dy (world pixels). The left
 	// side's value −(f·u − leftC·depth), over its gradient's length in
 	// (u, v), is its signed distance; likewise the right side's with the
 	// sign turned.
-	ga := 1 / math.Hypot(f, v.leftC*sinP)
-	gb := 1 / math.Hypot(f, v.rightC*sinP)
-	span := f
-	for _, p := range uv {
-		span += math.Abs(p[0]) + math.Abs(p[1])
-	}
 	return quickTest{
 		tx: v.target.X, ty: v.target.Y, wX: ss, wY: sc,
-		vMid: (uv[0][1] + uv[3][1]) / 2, halfV: (uv[3][1] - uv[0][1]) / 2,
+		vMid: (s.uv[0][1] + s.uv[3][1]) / 2, halfV: (s.uv[3][1] - s.uv[0][1]) / 2,
 		aX: ga * (v.leftC*sinP*ss - f*sc), aY: ga * (v.leftC*sinP*sc + f*ss), aC: ga * v.leftC * f,
 		bX: gb * (f*sc - v.rightC*sinP*ss), bY: -gb * (f*ss + v.rightC*sinP*sc), bC: -gb * v.rightC * f,
-		tolPx:    1e-9 * span,
+		tolPx:    s.tolPx,
 		invScale: 1 / v.scale,
 	}
 }
