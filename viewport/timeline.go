@@ -208,19 +208,22 @@ type driveRun struct {
 	visible []int32
 	visPos  []int32
 
+	// The quick test's shape, kept while the pitch stays (the device does
+	// not change in a drive).
+	shape      quickShape
+	shapePitch uint64 // the bits of the pitch shape was made for
+	shapeOK    bool
+
 	// Safe distances (see seeIndexed), kept for an epoch, which ends when
 	// the footprint's continuity does (empty, wrapped, first tick): the
 	// footprint's vertices at the tick before, their total movement so far
-	// (Mercator metres), and the markers queued under the total at which
-	// each must be tested again.
-	prevOK     bool
-	prevVerts  [4]Mercator
-	shape      quickShape
-	shapePitch uint64 // the pitch's bits shape was made for
-	shapeOK    bool
-	moved      float64
-	safeUntil  []float64 // per marker, the total movement up to which its answer holds
-	due        []int32   // room for the markers due at a tick
+	// (Mercator metres), and per marker the total up to which its answer
+	// holds.
+	prevOK    bool
+	prevVerts [4]Mercator
+	moved     float64
+	safeUntil []float64
+	due       []int32 // room for the markers due at a tick
 
 	// see brings r.in and r.visible up to tick k, through setIn; the
 	// indexed search by default.
@@ -388,8 +391,6 @@ func (r *driveRun) tick(k int, t float64, v *View) {
 // of T, which caps the safe distance. The total is rounded up and the keys
 // down, so rounding never lengthens a safe distance.
 func (r *driveRun) seeIndexed(k int32, v *View) {
-	// The quick test's shape, kept while the pitch stays (the device does
-	// not change in a drive).
 	if pb := math.Float64bits(v.cam.PitchDeg); !r.shapeOK || pb != r.shapePitch {
 		r.shape, r.shapePitch, r.shapeOK = v.quickShapeOf(), pb, true
 	}
