@@ -77,3 +77,22 @@ func (v *View) Replace(c Camera) error {
 	}
 	return v.place(&c)
 }
+
+// SafeDistanceM returns the drive timeline's safe distance for the
+// Mercator point m in view v, Mercator metres, as its tick loop computes
+// it, and the quick test's answer; ok is false when the view has no
+// trapezoid or wraps, or the quick test is unsure (the loop then asks
+// ProjectMercator and keeps no safe distance).
+func SafeDistanceM(v *View, m Mercator) (distM float64, in, ok bool) {
+	s := v.quickShapeOf()
+	if !s.ok || v.wrapped {
+		return 0, false, false
+	}
+	_, capM := v.footprintVerts(&s.uv)
+	q := v.quickOf(&s)
+	d := q.signedPx(ShortDXM(m.X-q.tx), m.Y-q.ty)
+	if math.Abs(d) <= q.tolPx {
+		return 0, false, false
+	}
+	return safeDistM(math.Abs(d), q.safeToM(), capM), d < 0, true
+}

@@ -405,15 +405,12 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 		}
 		return
 	}
-	// The trapezoid's Mercator vertices, how far they moved, and how far
-	// east or west of T they reach.
-	var verts [4]Mercator
-	var d2, reachM float64
-	for i, p := range uv {
-		verts[i] = v.mercatorOf(p[0], p[1])
-		dx, dy := ShortDXM(verts[i].X-r.prevVerts[i].X), verts[i].Y-r.prevVerts[i].Y
+	// The trapezoid's Mercator vertices, and how far they moved.
+	verts, capM := v.footprintVerts(uv)
+	var d2 float64
+	for i, p := range verts {
+		dx, dy := ShortDXM(p.X-r.prevVerts[i].X), p.Y-r.prevVerts[i].Y
 		d2 = max(d2, dx*dx+dy*dy)
-		reachM = max(reachM, math.Abs(verts[i].X-v.target.X))
 	}
 	if r.prevOK {
 		r.moved = math.Nextafter(r.moved+math.Sqrt(d2), math.Inf(1))
@@ -430,11 +427,7 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 	// the quick test (signedPx inlines).
 	q := v.quickOf(&r.shape)
 	tx, ty, tol := q.tx, q.ty, q.tolPx
-	// Safe distances in world pixels become Mercator metres, shrunk by 1e-9
-	// and 1 mm for the rounding of the distances and of the points.
-	toM := q.invScale * (1 - 1e-9)
-	const slackM = 1e-3
-	capM := max(0, worldWidthM/2-reachM)
+	toM := q.safeToM()
 	// The markers due, without a branch on each (keys are never NaN).
 	moved := r.moved
 	safeUntil := r.safeUntil
@@ -449,14 +442,10 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 		m := merc[i]
 		d := q.signedPx(ShortDXM(m.X-tx), m.Y-ty)
 		ad := math.Abs(d)
-		safeM := ad * toM
-		if safeM > capM {
-			safeM = capM
-		}
 		// The key is shrunk by 2⁻⁵¹ of itself, to below the float before
 		// it, so that its rounding cannot lengthen the safe distance (a key
 		// not above 0 is due next tick all the same).
-		safeUntil[i] = (moved + safeM - slackM) * (1 - 0x1p-51)
+		safeUntil[i] = (moved + safeDistM(ad, toM, capM)) * (1 - 0x1p-51)
 		in := d < 0
 		if ad <= tol {
 			// Unsure (rare): ask ProjectMercator, and again next tick.
@@ -466,6 +455,35 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 			r.flip(i)
 		}
 	}
+}
+
+// footprintVerts returns the Mercator vertices of the view's trapezoid uv,
+// and the cap on safe distances: πR less how far the vertices reach east or
+// west of T (another copy of a marker lies at least that far from the
+// footprint).
+func (v *View) footprintVerts(uv *[4][2]float64) (verts [4]Mercator, capM float64) {
+	var reachM float64
+	for i, p := range uv {
+		verts[i] = v.mercatorOf(p[0], p[1])
+		reachM = max(reachM, math.Abs(verts[i].X-v.target.X))
+	}
+	return verts, max(0, worldWidthM/2-reachM)
+}
+
+// safeToM returns the factor that turns the quick test's distances (world
+// pixels) into Mercator metres for safe distances, shrunk by 1e-9 for
+// their rounding.
+func (q *quickTest) safeToM() float64 { return q.invScale * (1 - 1e-9) }
+
+// safeDistM returns the safe distance in Mercator metres of a marker whose
+// quick test distance is adPx (sure, so above the sure margin): adPx·toM,
+// at most capM, less a millimetre for the rounding of the points.
+func safeDistM(adPx, toM, capM float64) float64 {
+	s := adPx * toM
+	if s > capM {
+		s = capM
+	}
+	return s - 1e-3
 }
 
 // b2i returns 1 for true and 0 for false.

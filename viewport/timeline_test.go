@@ -9,6 +9,7 @@ import (
 	"github.com/paulmach/orb"
 	"pgregory.net/rapid"
 
+	"github.com/viewspec/viewspec/props"
 	"github.com/viewspec/viewspec/routes"
 	"github.com/viewspec/viewspec/rules"
 	"github.com/viewspec/viewspec/viewport"
@@ -382,6 +383,64 @@ func TestTimelineIndexedExactWorld(t *testing.T) {
 			}
 		}
 	})
+}
+
+// A marker's safe distance never exceeds how far the footprint must move to
+// change its answer: the distance from the marker to the footprint's
+// boundary on the cylinder the map wraps round, the nearest over the
+// marker's copies a world apart. Views at zoom 0 to 3 half the time (many
+// reach far east or west), up to 20 otherwise; markers anywhere, or near a
+// vertex: without the cap on safe distances, a copy a world away that lies
+// nearer the footprint than the copy nearest T makes this fail in most
+// runs.
+func TestSafeDistanceWithinWrappedDistance(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		c := props.Camera().Draw(t, "camera")
+		c.Zoom = rapid.OneOf(rapid.Float64Range(0, 3), rapid.Float64Range(0, 20)).Draw(t, "zoom")
+		v, err := viewport.Prepare(c)
+		if err != nil {
+			t.Skip(err.Error())
+		}
+		fp := v.Footprint()
+		m := viewport.ToMercator(orb.Point{rapid.Float64Range(-180, 180).Draw(t, "lon"), rapid.Float64Range(-85, 85).Draw(t, "lat")})
+		if rapid.Bool().Draw(t, "near_footprint") && !fp.Empty {
+			// Near a vertex, a world away or not.
+			p := fp.Mercator[rapid.IntRange(0, 3).Draw(t, "vertex")]
+			off := rapid.Float64Range(-1, 1)
+			m = viewport.Mercator{X: p.X + off.Draw(t, "dx")*1e5, Y: p.Y + off.Draw(t, "dy")*1e5}
+		}
+		safeM, in, ok := viewport.SafeDistanceM(&v, m)
+		if !ok {
+			return
+		}
+		if want := v.ProjectMercator(m).InView(); in != want {
+			t.Fatalf("quick test says in view %v, ProjectMercator %v", in, want)
+		}
+		w := 2 * math.Pi * viewport.EarthRadiusM
+		dist := math.Inf(1)
+		for k := -2; k <= 2; k++ {
+			dist = min(dist, boundaryDistM(fp.Mercator, viewport.Mercator{X: m.X + float64(k)*w, Y: m.Y}))
+		}
+		if safeM > dist*(1+1e-9) {
+			t.Fatalf("%v: safe distance %.6g m beyond the distance %.6g m to the boundary, copies a world apart included", m, safeM, dist)
+		}
+	})
+}
+
+// boundaryDistM returns the distance from m to the nearest edge of the
+// polygon vs (Mercator metres).
+func boundaryDistM(vs [4]viewport.Mercator, m viewport.Mercator) float64 {
+	best := math.Inf(1)
+	for i := range vs {
+		a, b := vs[i], vs[(i+1)%len(vs)]
+		ex, ey := b.X-a.X, b.Y-a.Y
+		s := 0.0
+		if l2 := ex*ex + ey*ey; l2 > 0 {
+			s = max(0, min(1, ((m.X-a.X)*ex+(m.Y-a.Y)*ey)/l2))
+		}
+		best = min(best, math.Hypot(m.X-a.X-s*ex, m.Y-a.Y-s*ey))
+	}
+	return best
 }
 
 // Doubling the cap never lowers any marker's shown time; the answer does
