@@ -224,6 +224,13 @@ type driveRun struct {
 	moved     float64
 	safeUntil []float64
 	due       []int32 // room for the markers due at a tick
+	prevUser  Mercator
+	// The near list: markers whose key lay below nearM when it was
+	// gathered (and so every marker whose key lies below nearM), looked at
+	// every tick while the movement stays below nearM.
+	near  []int32
+	nearM float64
+	all   []int32 // 0, 1, …, n−1
 
 	// see brings r.in and r.visible up to tick k, through setIn; the
 	// indexed search by default.
@@ -241,10 +248,12 @@ func newDriveRun(d *Drive, ms []Marker, merc []Mercator) *driveRun {
 		visPos:    make([]int32, n),
 		safeUntil: make([]float64, n),
 		due:       make([]int32, n),
+		near:      make([]int32, n),
+		all:       make([]int32, n),
 		see:       (*driveRun).seeIndexed,
 	}
 	for i := range r.visPos {
-		r.visPos[i] = -1
+		r.visPos[i], r.all[i] = -1, int32(i)
 	}
 	return r
 }
@@ -412,30 +421,43 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 		dx, dy := ShortDXM(p.X-r.prevVerts[i].X), p.Y-r.prevVerts[i].Y
 		d2 = max(d2, dx*dx+dy*dy)
 	}
+	// h: eight ticks of the user's travel at this tick's pace, Mercator
+	// metres (and a little more, so that a stopped view does not gather
+	// its near list again at every tick).
+	var h float64
 	if r.prevOK {
 		r.moved = math.Nextafter(r.moved+math.Sqrt(d2), math.Inf(1))
+		h = 8*math.Hypot(ShortDXM(v.user.X-r.prevUser.X), v.user.Y-r.prevUser.Y) + 1e-9*(1+r.moved)
 	} else {
-		// A new epoch: no earlier safe distance holds.
-		r.moved = 0
+		// A new epoch: no earlier safe distance holds, and the near list
+		// is gathered again.
+		r.moved, r.nearM = 0, math.Inf(-1)
 		for i := range r.safeUntil {
 			r.safeUntil[i] = math.Inf(-1)
 		}
 	}
-	r.prevOK, r.prevVerts = true, verts
+	r.prevOK, r.prevVerts, r.prevUser = true, verts, v.user
 
 	// The loop runs for every marker due, so it works on a local copy of
 	// the quick test (signedPx inlines).
 	q := v.quickOf(&r.shape)
 	tx, ty, tol := q.tx, q.ty, q.tolPx
 	toM := q.safeToM()
-	// The markers due, without a branch on each (keys are never NaN).
 	moved := r.moved
 	safeUntil := r.safeUntil
-	due := r.due[:len(safeUntil)]
+	// The markers due, without a branch on each (keys are never NaN):
+	// those of the near list whose key the movement has reached, or, once
+	// the movement reaches nearM, those of all.
+	gather := !(moved < r.nearM)
+	from := r.near
+	if gather {
+		from = r.all
+	}
+	due := r.due[:len(from)]
 	nd := 0
-	for i, su := range safeUntil {
-		due[nd] = int32(i)
-		nd += b2i(su <= moved)
+	for _, i := range from {
+		due[nd] = i
+		nd += b2i(safeUntil[i] <= moved)
 	}
 	merc, inView := r.merc, r.in
 	for _, i := range due[:nd] {
@@ -454,6 +476,20 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 		if in != inView[i] {
 			r.flip(i)
 		}
+	}
+	if gather {
+		// The near list anew: every marker whose key lies below nearM, h
+		// ahead of the movement. Until the movement reaches nearM, a
+		// marker outside the list is not due; one in it stays whatever
+		// its new key.
+		r.nearM = moved + h
+		near := r.near[:len(safeUntil)]
+		nn := 0
+		for i, su := range safeUntil {
+			near[nn] = int32(i)
+			nn += b2i(su < r.nearM)
+		}
+		r.near = near[:nn]
 	}
 }
 
