@@ -88,7 +88,7 @@ func SafeDistanceM(v *View, m Mercator) (distM float64, in, ok bool) {
 	if !s.ok || v.wrapped {
 		return 0, false, false
 	}
-	_, capM := v.footprintVerts(&s.uv)
+	_, capM := v.footprintOffsets(&s.uv)
 	q := v.quickOf(&s)
 	d := q.signedPx(ShortDXM(m.X-q.tx), m.Y-q.ty)
 	if math.Abs(d) <= q.tolPx {

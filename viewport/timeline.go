@@ -208,11 +208,16 @@ type driveRun struct {
 	visible []int32
 	visPos  []int32
 
-	// The quick test's shape, kept while the pitch stays (the device does
-	// not change in a drive).
-	shape      quickShape
-	shapePitch uint64 // the bits of the pitch shape was made for
-	shapeOK    bool
+	// The terms of the frame (see seeIndexed) and the bits of the pitch,
+	// zoom and heading they were made for: the quick test's shape, the
+	// trapezoid's vertices about T, the cap on safe distances, and the
+	// quick test but for T.
+	frameKey [3]uint64
+	frameOK  bool
+	shape    quickShape
+	offs     [4]Mercator
+	capM     float64
+	quick    quickTest
 
 	// Safe distances (see seeIndexed), kept for an epoch, which ends when
 	// the footprint's continuity does (empty, wrapped, first tick): the
@@ -322,7 +327,7 @@ func (r *driveRun) run() ([]MarkerTimeline, error) {
 		cam.LatDeg, cam.LonDeg = pos[1], pos[0]
 		cam.HeadingDeg, cam.PitchDeg, cam.Zoom = heading, st.PitchDeg(), st.Zoom()
 		v := &views[k&1]
-		if err := v.place(&cam); err != nil {
+		if err := v.placeKnown(&cam, v.focal > 0); err != nil { // the drive's device throughout
 			return nil, fmt.Errorf("at t = %s s: %w", FormatNumber(t), err)
 		}
 		r.tick(k, t, v)
@@ -400,10 +405,20 @@ func (r *driveRun) tick(k int, t float64, v *View) {
 // of T, which caps the safe distance. The total is rounded up and the keys
 // down, so rounding never lengthens a safe distance.
 func (r *driveRun) seeIndexed(k int32, v *View) {
-	if pb := math.Float64bits(v.cam.PitchDeg); !r.shapeOK || pb != r.shapePitch {
-		r.shape, r.shapePitch, r.shapeOK = v.quickShapeOf(), pb, true
+	// The frame's terms: kept while pitch, zoom and heading stay (the
+	// device does not change in a drive), which is most ticks; they are
+	// the same numbers either way.
+	c := &v.cam
+	if key := [3]uint64{math.Float64bits(c.PitchDeg), math.Float64bits(c.Zoom), math.Float64bits(c.HeadingDeg)}; !r.frameOK || key != r.frameKey {
+		if !r.frameOK || key[0] != r.frameKey[0] {
+			r.shape = v.quickShapeOf()
+		}
+		if r.shape.ok {
+			r.offs, r.capM = v.footprintOffsets(&r.shape.uv)
+			r.quick = v.quickOf(&r.shape)
+		}
+		r.frameKey, r.frameOK = key, true
 	}
-	uv := &r.shape.uv
 	if !r.shape.ok || v.wrapped {
 		// No continuity: ask ProjectMercator of every marker (an empty
 		// trapezoid may still have a row of ground on the screen, where
@@ -415,9 +430,11 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 		return
 	}
 	// The trapezoid's Mercator vertices, and how far they moved.
-	verts, capM := v.footprintVerts(uv)
+	var verts [4]Mercator
 	var d2 float64
-	for i, p := range verts {
+	for i, o := range r.offs {
+		p := Mercator{X: v.target.X + o.X, Y: v.target.Y + o.Y}
+		verts[i] = p
 		dx, dy := ShortDXM(p.X-r.prevVerts[i].X), p.Y-r.prevVerts[i].Y
 		d2 = max(d2, dx*dx+dy*dy)
 	}
@@ -440,8 +457,9 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 
 	// The loop runs for every marker due, so it works on a local copy of
 	// the quick test (signedPx inlines).
-	q := v.quickOf(&r.shape)
-	tx, ty, tol := q.tx, q.ty, q.tolPx
+	q := r.quick
+	q.tx, q.ty = v.target.X, v.target.Y
+	tx, ty, tol, capM := q.tx, q.ty, q.tolPx, r.capM
 	toM := q.safeToM()
 	moved := r.moved
 	safeUntil := r.safeUntil
@@ -493,17 +511,18 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 	}
 }
 
-// footprintVerts returns the Mercator vertices of the view's trapezoid uv,
-// and the cap on safe distances: πR less how far the vertices reach east or
-// west of T (another copy of a marker lies at least that far from the
-// footprint).
-func (v *View) footprintVerts(uv *[4][2]float64) (verts [4]Mercator, capM float64) {
+// footprintOffsets returns the Mercator offsets from T of the vertices of
+// the view's trapezoid uv (T plus an offset is the vertex mercatorOf
+// gives, to the bit), and the cap on safe distances: πR less how far the
+// vertices reach east or west of T (another copy of a marker lies at least
+// that far from the footprint).
+func (v *View) footprintOffsets(uv *[4][2]float64) (offs [4]Mercator, capM float64) {
 	var reachM float64
 	for i, p := range uv {
-		verts[i] = v.mercatorOf(p[0], p[1])
-		reachM = max(reachM, math.Abs(verts[i].X-v.target.X))
+		offs[i] = Mercator{X: (p[0]*v.cosH + p[1]*v.sinH) / v.scale, Y: (-p[0]*v.sinH + p[1]*v.cosH) / v.scale}
+		reachM = max(reachM, math.Abs(offs[i].X))
 	}
-	return verts, max(0, worldWidthM/2-reachM)
+	return offs, max(0, worldWidthM/2-reachM)
 }
 
 // safeToM returns the factor that turns the quick test's distances (world

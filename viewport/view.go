@@ -66,9 +66,15 @@ func Prepare(c Camera) (View, error) {
 // from the camera v was last placed for when those inputs are the same
 // (bit for bit): the same numbers, without their trigonometry.
 func (v *View) place(c *Camera) error {
+	return v.placeKnown(c, v.focal > 0 && c.Device == v.cam.Device)
+}
+
+// placeKnown is place for a caller that knows whether c's device is the
+// one v was last placed for (v placed, its device the same): a drive's
+// always is, and comparing devices costs as much as the rest.
+func (v *View) placeKnown(c *Camera, sameDevice bool) error {
 	d := &c.Device
 	old := &v.cam
-	sameDevice := v.focal > 0 && *d == old.Device
 	samePitch := sameDevice && math.Float64bits(c.PitchDeg) == math.Float64bits(old.PitchDeg)
 	sameZoom := sameDevice && math.Float64bits(c.Zoom) == math.Float64bits(old.Zoom)
 	sameHeading := sameDevice && math.Float64bits(c.HeadingDeg) == math.Float64bits(old.HeadingDeg)
