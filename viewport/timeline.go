@@ -235,7 +235,6 @@ type driveRun struct {
 	// every tick while the movement stays below nearM.
 	near  []int32
 	nearM float64
-	all   []int32 // 0, 1, …, n−1
 
 	// see brings r.in and r.visible up to tick k, through setIn; the
 	// indexed search by default.
@@ -254,11 +253,10 @@ func newDriveRun(d *Drive, ms []Marker, merc []Mercator) *driveRun {
 		safeUntil: make([]float64, n),
 		due:       make([]int32, n),
 		near:      make([]int32, n),
-		all:       make([]int32, n),
 		see:       (*driveRun).seeIndexed,
 	}
 	for i := range r.visPos {
-		r.visPos[i], r.all[i] = -1, int32(i)
+		r.visPos[i] = -1
 	}
 	return r
 }
@@ -465,17 +463,28 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 	safeUntil := r.safeUntil
 	// The markers due, without a branch on each (keys are never NaN):
 	// those of the near list whose key the movement has reached, or, once
-	// the movement reaches nearM, those of all.
+	// the movement reaches nearM, those of all, in the same pass as the
+	// near list is gathered anew: every marker whose key lies below
+	// nearM, h ahead of the movement. Until the movement reaches nearM, a
+	// marker outside the list is not due.
 	gather := !(moved < r.nearM)
-	from := r.near
-	if gather {
-		from = r.all
-	}
-	due := r.due[:len(from)]
+	due := r.due[:len(safeUntil)]
 	nd := 0
-	for _, i := range from {
-		due[nd] = i
-		nd += b2i(safeUntil[i] <= moved)
+	if gather {
+		nearM := moved + h
+		near := r.near[:len(safeUntil)]
+		nn := 0
+		for i, su := range safeUntil {
+			due[nd], near[nn] = int32(i), int32(i)
+			nd += b2i(su <= moved)
+			nn += b2i(su < nearM)
+		}
+		r.near, r.nearM = near[:nn], nearM
+	} else {
+		for _, i := range r.near {
+			due[nd] = i
+			nd += b2i(safeUntil[i] <= moved)
+		}
 	}
 	merc, inView := r.merc, r.in
 	for _, i := range due[:nd] {
@@ -496,18 +505,14 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 		}
 	}
 	if gather {
-		// The near list anew: every marker whose key lies below nearM, h
-		// ahead of the movement. Until the movement reaches nearM, a
-		// marker outside the list is not due; one in it stays whatever
-		// its new key.
-		r.nearM = moved + h
-		near := r.near[:len(safeUntil)]
-		nn := 0
-		for i, su := range safeUntil {
-			near[nn] = int32(i)
-			nn += b2i(su < r.nearM)
+		// The markers just tested are in the near list; those whose new
+		// key lies at or beyond nearM leave it, so that it stays short.
+		near, nearM := r.near[:0], r.nearM
+		for _, i := range r.near {
+			near = append(near, i)
+			near = near[:len(near)-1+b2i(safeUntil[i] < nearM)]
 		}
-		r.near = near[:nn]
+		r.near = near
 	}
 }
 
