@@ -402,21 +402,13 @@ func (r *driveRun) tick(k int, t float64, v *View) {
 // from T, so at least πR − L from a footprint that reaches L east or west
 // of T, which caps the safe distance. The total is rounded up and the keys
 // down, so rounding never lengthens a safe distance.
+//
+// Between turns the total grows by about the user's travel a tick, and few
+// markers come due; they are found in a near list of markers whose keys
+// lie a few ticks ahead (see dueNow), so that only a tick that turns,
+// zooms or tilts the view looks at every marker's key.
 func (r *driveRun) seeIndexed(k int32, v *View) {
-	// The frame's terms: kept while pitch, zoom and heading stay (the
-	// device does not change in a drive), which is most ticks; they are
-	// the same numbers either way.
-	c := &v.cam
-	if key := [3]uint64{math.Float64bits(c.PitchDeg), math.Float64bits(c.Zoom), math.Float64bits(c.HeadingDeg)}; !r.frameOK || key != r.frameKey {
-		if !r.frameOK || key[0] != r.frameKey[0] {
-			r.shape = v.quickShapeOf()
-		}
-		if r.shape.ok {
-			r.offs, r.capM = v.footprintOffsets(&r.shape.uv)
-			r.quick = v.quickOf(&r.shape)
-		}
-		r.frameKey, r.frameOK = key, true
-	}
+	r.frame(v)
 	if !r.shape.ok || v.wrapped {
 		// No continuity: ask ProjectMercator of every marker (an empty
 		// trapezoid may still have a row of ground on the screen, where
@@ -427,67 +419,17 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 		}
 		return
 	}
-	// The trapezoid's Mercator vertices, and how far they moved.
-	var verts [4]Mercator
-	var d2 float64
-	for i, o := range r.offs {
-		p := Mercator{X: v.target.X + o.X, Y: v.target.Y + o.Y}
-		verts[i] = p
-		dx, dy := ShortDXM(p.X-r.prevVerts[i].X), p.Y-r.prevVerts[i].Y
-		d2 = max(d2, dx*dx+dy*dy)
-	}
-	// h: eight ticks of the user's travel at this tick's pace, Mercator
-	// metres (and a little more, so that a stopped view does not gather
-	// its near list again at every tick).
-	var h float64
-	if r.prevOK {
-		r.moved = math.Nextafter(r.moved+math.Sqrt(d2), math.Inf(1))
-		h = 8*math.Hypot(ShortDXM(v.user.X-r.prevUser.X), v.user.Y-r.prevUser.Y) + 1e-9*(1+r.moved)
-	} else {
-		// A new epoch: no earlier safe distance holds, and the near list
-		// is gathered again.
-		r.moved, r.nearM = 0, math.Inf(-1)
-		for i := range r.safeUntil {
-			r.safeUntil[i] = math.Inf(-1)
-		}
-	}
-	r.prevOK, r.prevVerts, r.prevUser = true, verts, v.user
-
+	h := r.advance(v)
+	due, gather := r.dueNow(h)
 	// The loop runs for every marker due, so it works on a local copy of
 	// the quick test (signedPx inlines).
 	q := r.quick
 	q.tx, q.ty = v.target.X, v.target.Y
 	tx, ty, tol, capM := q.tx, q.ty, q.tolPx, r.capM
 	toM := q.safeToM()
-	moved := r.moved
-	safeUntil := r.safeUntil
-	// The markers due, without a branch on each (keys are never NaN):
-	// those of the near list whose key the movement has reached, or, once
-	// the movement reaches nearM, those of all, in the same pass as the
-	// near list is gathered anew: every marker whose key lies below
-	// nearM, h ahead of the movement. Until the movement reaches nearM, a
-	// marker outside the list is not due.
-	gather := !(moved < r.nearM)
-	due := r.due[:len(safeUntil)]
-	nd := 0
-	if gather {
-		nearM := moved + h
-		near := r.near[:len(safeUntil)]
-		nn := 0
-		for i, su := range safeUntil {
-			due[nd], near[nn] = int32(i), int32(i)
-			nd += b2i(su <= moved)
-			nn += b2i(su < nearM)
-		}
-		r.near, r.nearM = near[:nn], nearM
-	} else {
-		for _, i := range r.near {
-			due[nd] = i
-			nd += b2i(safeUntil[i] <= moved)
-		}
-	}
+	moved, safeUntil := r.moved, r.safeUntil
 	merc, inView := r.merc, r.in
-	for _, i := range due[:nd] {
+	for _, i := range due {
 		m := merc[i]
 		d := q.signedPx(ShortDXM(m.X-tx), m.Y-ty)
 		ad := math.Abs(d)
@@ -514,6 +456,83 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 		}
 		r.near = near
 	}
+}
+
+// frame brings the frame's terms up to view v: they are kept while pitch,
+// zoom and heading stay (the device does not change in a drive), which is
+// most ticks, and are the same numbers either way.
+func (r *driveRun) frame(v *View) {
+	c := &v.cam
+	key := [3]uint64{math.Float64bits(c.PitchDeg), math.Float64bits(c.Zoom), math.Float64bits(c.HeadingDeg)}
+	if r.frameOK && key == r.frameKey {
+		return
+	}
+	if !r.frameOK || key[0] != r.frameKey[0] {
+		r.shape = v.quickShapeOf()
+	}
+	if r.shape.ok {
+		r.offs, r.capM = v.footprintOffsets(&r.shape.uv)
+		r.quick = v.quickOf(&r.shape)
+	}
+	r.frameKey, r.frameOK = key, true
+}
+
+// advance adds how far the footprint's vertices moved since the tick
+// before to the epoch's total (rounded up), or starts an epoch, and
+// returns h: eight ticks of the user's travel at this tick's pace, Mercator
+// metres (and a little more, so that a stopped view does not gather its
+// near list again at every tick).
+func (r *driveRun) advance(v *View) (h float64) {
+	var verts [4]Mercator
+	var d2 float64
+	for i, o := range r.offs {
+		p := Mercator{X: v.target.X + o.X, Y: v.target.Y + o.Y}
+		verts[i] = p
+		dx, dy := ShortDXM(p.X-r.prevVerts[i].X), p.Y-r.prevVerts[i].Y
+		d2 = max(d2, dx*dx+dy*dy)
+	}
+	if r.prevOK {
+		r.moved = math.Nextafter(r.moved+math.Sqrt(d2), math.Inf(1))
+		h = 8*math.Hypot(ShortDXM(v.user.X-r.prevUser.X), v.user.Y-r.prevUser.Y) + 1e-9*(1+r.moved)
+	} else {
+		// A new epoch: no earlier safe distance holds, and the near list
+		// is gathered again.
+		r.moved, r.nearM = 0, math.Inf(-1)
+		for i := range r.safeUntil {
+			r.safeUntil[i] = math.Inf(-1)
+		}
+	}
+	r.prevOK, r.prevVerts, r.prevUser = true, verts, v.user
+	return h
+}
+
+// dueNow returns the markers whose key the movement has reached, found
+// without a branch on each (keys are never NaN): those of the near list,
+// or, once the movement reaches nearM, those of all, in the same pass that
+// gathers the near list anew (gather true): every marker whose key lies
+// below nearM, h ahead of the movement. Until the movement reaches nearM,
+// a marker outside the list is not due.
+func (r *driveRun) dueNow(h float64) (due []int32, gather bool) {
+	moved, safeUntil := r.moved, r.safeUntil
+	due = r.due[:len(safeUntil)]
+	nd := 0
+	if gather = !(moved < r.nearM); gather {
+		nearM := moved + h
+		near := r.near[:len(safeUntil)]
+		nn := 0
+		for i, su := range safeUntil {
+			due[nd], near[nn] = int32(i), int32(i)
+			nd += b2i(su <= moved)
+			nn += b2i(su < nearM)
+		}
+		r.near, r.nearM = near[:nn], nearM
+		return due[:nd], true
+	}
+	for _, i := range r.near {
+		due[nd] = i
+		nd += b2i(safeUntil[i] <= moved)
+	}
+	return due[:nd], false
 }
 
 // footprintOffsets returns the Mercator offsets from T of the vertices of
