@@ -449,12 +449,13 @@ func (r *driveRun) seeIndexed(k int32, v *View) {
 	if gather {
 		// The markers just tested are in the near list; those whose new
 		// key lies at or beyond nearM leave it, so that it stays short.
-		near, nearM := r.near[:0], r.nearM
-		for _, i := range r.near {
-			near = append(near, i)
-			near = near[:len(near)-1+b2i(safeUntil[i] < nearM)]
+		near, nearM := r.near, r.nearM
+		nn := 0
+		for _, i := range near {
+			near[nn] = i // nn is at most the index read
+			nn += b2i(safeUntil[i] < nearM)
 		}
-		r.near = near
+		r.near = near[:nn]
 	}
 }
 
