@@ -221,15 +221,15 @@ type driveRun struct {
 
 	// Safe distances (see seeIndexed), kept for an epoch, which ends when
 	// the footprint's continuity does (empty, wrapped, first tick): the
-	// footprint's vertices at the tick before, their total movement so far
-	// (Mercator metres), and per marker the total up to which its answer
-	// holds.
+	// footprint's vertices and the user at the tick before, the vertices'
+	// total movement so far (Mercator metres), and per marker the total up
+	// to which its answer holds.
 	prevOK    bool
 	prevVerts [4]Mercator
+	prevUser  Mercator
 	moved     float64
 	safeUntil []float64
 	due       []int32 // room for the markers due at a tick
-	prevUser  Mercator
 	// The near list: markers whose key lay below nearM when it was
 	// gathered (and so every marker whose key lies below nearM), looked at
 	// every tick while the movement stays below nearM.

@@ -61,10 +61,10 @@ func Prepare(c Camera) (View, error) {
 
 // place prepares v for c, whose fields are known valid (validateFields):
 // everything but the anchor's horizon check, which depends on the pitch and
-// is made here. The drive timeline calls it once a tick on the same View,
-// so the terms of the device, the pitch, the zoom and the heading are kept
-// from the camera v was last placed for when those inputs are the same
-// (bit for bit): the same numbers, without their trigonometry.
+// is made here. The drive timeline places the same two Views again and
+// again, so the terms of the device, the pitch, the zoom and the heading
+// are kept from the camera v was last placed for when those inputs are the
+// same (bit for bit): the same numbers, without their trigonometry.
 func (v *View) place(c *Camera) error {
 	return v.placeKnown(c, v.focal > 0 && c.Device == v.cam.Device)
 }
