@@ -74,6 +74,21 @@ func BenchmarkPrepare(b *testing.B) {
 	}
 }
 
+// A View placed again for a camera that moved but kept its device, pitch,
+// zoom and heading, as at most ticks of a drive; against Prepare above.
+func BenchmarkPlaceAgain(b *testing.B) {
+	b.ReportAllocs()
+	c := benchCamera
+	var v viewport.View
+	for i := 0; i < b.N; i++ {
+		c.LatDeg = benchCamera.LatDeg + float64(i%1000)*1e-5
+		if err := v.Replace(c); err != nil {
+			b.Fatal(err)
+		}
+	}
+	sinkV = v
+}
+
 func BenchmarkFootprint(b *testing.B) {
 	v, _ := viewport.Prepare(benchCamera)
 	b.ReportAllocs()
