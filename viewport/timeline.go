@@ -537,14 +537,13 @@ func (r *driveRun) dueNow(h float64) (due []int32, gather bool) {
 }
 
 // footprintOffsets returns the Mercator offsets from T of the vertices of
-// the view's trapezoid uv (T plus an offset is the vertex mercatorOf
-// gives, to the bit), and the cap on safe distances: πR less how far the
-// vertices reach east or west of T (another copy of a marker lies at least
-// that far from the footprint).
+// the view's trapezoid uv (see offsetOf), and the cap on safe distances:
+// πR less how far the vertices reach east or west of T (another copy of a
+// marker lies at least that far from the footprint).
 func (v *View) footprintOffsets(uv *[4][2]float64) (offs [4]Mercator, capM float64) {
 	var reachM float64
 	for i, p := range uv {
-		offs[i] = Mercator{X: (p[0]*v.cosH + p[1]*v.sinH) / v.scale, Y: (-p[0]*v.sinH + p[1]*v.cosH) / v.scale}
+		offs[i] = v.offsetOf(p[0], p[1])
 		reachM = max(reachM, math.Abs(offs[i].X))
 	}
 	return offs, max(0, worldWidthM/2-reachM)

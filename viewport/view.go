@@ -222,10 +222,14 @@ func (v *View) groundFrame(m Mercator) (u, w float64) {
 
 // mercatorOf returns the Mercator point of ground-frame point (u, w).
 func (v *View) mercatorOf(u, w float64) Mercator {
-	return Mercator{
-		X: v.target.X + (u*v.cosH+w*v.sinH)/v.scale,
-		Y: v.target.Y + (-u*v.sinH+w*v.cosH)/v.scale,
-	}
+	o := v.offsetOf(u, w)
+	return Mercator{X: v.target.X + o.X, Y: v.target.Y + o.Y}
+}
+
+// offsetOf returns the Mercator offset from T of ground-frame point (u, w):
+// T plus it is mercatorOf(u, w), to the bit.
+func (v *View) offsetOf(u, w float64) Mercator {
+	return Mercator{X: (u*v.cosH + w*v.sinH) / v.scale, Y: (-u*v.sinH + w*v.cosH) / v.scale}
 }
 
 // Pixel is a screen position in pixels: origin top-left, x right, y down.
