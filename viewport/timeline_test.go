@@ -427,22 +427,6 @@ func TestSafeDistanceWithinWrappedDistance(t *testing.T) {
 	})
 }
 
-// boundaryDistM returns the distance from m to the nearest edge of the
-// polygon vs (Mercator metres).
-func boundaryDistM(vs [4]viewport.Mercator, m viewport.Mercator) float64 {
-	best := math.Inf(1)
-	for i := range vs {
-		a, b := vs[i], vs[(i+1)%len(vs)]
-		ex, ey := b.X-a.X, b.Y-a.Y
-		s := 0.0
-		if l2 := ex*ex + ey*ey; l2 > 0 {
-			s = max(0, min(1, ((m.X-a.X)*ex+(m.Y-a.Y)*ey)/l2))
-		}
-		best = min(best, math.Hypot(m.X-a.X-s*ex, m.Y-a.Y-s*ey))
-	}
-	return best
-}
-
 // Doubling the cap never lowers any marker's shown time; the answer does
 // not depend on the order the markers are given in.
 func TestTimelineCapMonotoneAndOrderFree(t *testing.T) {

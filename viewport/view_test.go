@@ -445,16 +445,7 @@ func TestQuickTestSureAndBound(t *testing.T) {
 			t.Fatalf("%v: quick test says in view %v, ProjectMercator %v", m, in, want)
 		}
 		// The distance to the boundary: the nearest of the four edges.
-		edge := math.Inf(1)
-		for i := range vs {
-			a, b := vs[i], vs[(i+1)%4]
-			ex, ey := b.X-a.X, b.Y-a.Y
-			s := 0.0
-			if l2 := ex*ex + ey*ey; l2 > 0 {
-				s = math.Max(0, math.Min(1, ((m.X-a.X)*ex+(m.Y-a.Y)*ey)/l2))
-			}
-			edge = math.Min(edge, math.Hypot(m.X-a.X-s*ex, m.Y-a.Y-s*ey))
-		}
+		edge := boundaryDistM(vs, m)
 		if tol := 1e-9*(edge+size) + mercUlpM(m, v.Target()); distM > edge+tol {
 			t.Fatalf("%v (in view %v): bound %.9g m beyond the distance to the boundary %.9g m", m, in, distM, edge)
 		}
@@ -511,4 +502,20 @@ func TestPlaceAgainIsPrepare(t *testing.T) {
 			}
 		}
 	})
+}
+
+// boundaryDistM returns the distance from m to the nearest edge of the
+// polygon vs (Mercator metres).
+func boundaryDistM(vs [4]viewport.Mercator, m viewport.Mercator) float64 {
+	best := math.Inf(1)
+	for i := range vs {
+		a, b := vs[i], vs[(i+1)%len(vs)]
+		ex, ey := b.X-a.X, b.Y-a.Y
+		s := 0.0
+		if l2 := ex*ex + ey*ey; l2 > 0 {
+			s = max(0, min(1, ((m.X-a.X)*ex+(m.Y-a.Y)*ey)/l2))
+		}
+		best = min(best, math.Hypot(m.X-a.X-s*ex, m.Y-a.Y-s*ey))
+	}
+	return best
 }
