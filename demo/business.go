@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"slices"
 
-	"github.com/viewspec/viewspec/viewport"
+	"github.com/viewspec/viewspec/timeline"
 )
 
 // Business is one invented business of Port Wren: its marker (id "pw-001"…, position [lon, lat]
@@ -12,7 +12,7 @@ import (
 // category ("bakery", "pharmacy", "fuel", …) and the street it stands on. Every business stands
 // 12–45 m to one side of its street (set back from the road's centre line), away from junctions.
 type Business struct {
-	viewport.Marker
+	timeline.Marker
 	Name     string
 	Category string
 	Street   string
@@ -154,7 +154,7 @@ func newBusinesses(seed uint64, l *layout, rs []road) []Business {
 	for i, p := range ps {
 		prio := min(10, max(0, p.category.priority+r.intn(3)-1))
 		out[i] = Business{
-			Marker:   viewport.Marker{ID: fmt.Sprintf("pw-%03d", i+1), Point: lonLat(p.at), Priority: float64(prio)},
+			Marker:   timeline.Marker{ID: fmt.Sprintf("pw-%03d", i+1), Point: lonLat(p.at), Priority: float64(prio)},
 			Name:     uniqueName(r, p.category, p.street, used),
 			Category: p.category.name,
 			Street:   p.street,

@@ -11,7 +11,7 @@
 //     main one) 105–150 m apart; the Gorse Ring, a ring road 300–400 m outside the grid that the two
 //     main roads run out to; the Tarrow Expressway from the ring out towards the headland, and its
 //     sharp exit (a turn of 64–76°) onto the Tarrow Slip, which leads to a lane and a hamlet.
-//   - Businesses ([Business]): 92–143 of them, each a viewport.Marker (id pw-001…, priority a whole
+//   - Businesses ([Business]): 92–143 of them, each a timeline.Marker (id pw-001…, priority a whole
 //     number 0–10) with a name, a category (bakery, café, pharmacy, fuel, …) and its street; in the
 //     centre 12–26 m to either side of a street's centre line, by the ring and expressway 25–45 m,
 //     by the lane 15–25 m, never within 25 m (along the street) of a junction.

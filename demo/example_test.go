@@ -5,7 +5,7 @@ import (
 	"slices"
 
 	"github.com/viewspec/viewspec/demo"
-	"github.com/viewspec/viewspec/viewport"
+	"github.com/viewspec/viewspec/timeline"
 )
 
 // The default town: its counts, and each drive's length (WGS84 geodesic), duration at its speeds and
@@ -41,16 +41,16 @@ func ExampleScenario_TimelineDrive() {
 		fmt.Println(err)
 		return
 	}
-	res, err := viewport.Timeline(&vd, s.Markers())
+	res, err := timeline.Compute(&vd, s.Markers())
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
-	n := map[viewport.Bucket]int{}
+	n := map[timeline.Bucket]int{}
 	for _, m := range res {
 		n[m.Bucket]++
 	}
-	fmt.Printf("early %d, mid %d, late %d, never %d\n", n[viewport.Early], n[viewport.Mid], n[viewport.Late], n[viewport.Never])
+	fmt.Printf("early %d, mid %d, late %d, never %d\n", n[timeline.Early], n[timeline.Mid], n[timeline.Late], n[timeline.Never])
 	// Output:
 	// early 6, mid 7, late 18, never 70
 }

@@ -13,7 +13,7 @@ import (
 	"github.com/viewspec/viewspec/internal/atomicfile"
 )
 
-// Files are written as the rest of viewspec reads them (fixtures.ReadRoute, fixtures.ReadMarkers):
+// Files are written as the rest of viewspec reads them (geofile.ReadRoute, geofile.ReadMarkers):
 // RFC 7946 GeoJSON with [lon, lat] WGS84 degrees, numbers in their shortest form that reads back to
 // the same float64, object keys sorted, one trailing newline.
 
@@ -31,7 +31,7 @@ func (s *Scenario) StreetsGeoJSON() ([]byte, error) {
 }
 
 // BusinessesGeoJSON returns the businesses as a GeoJSON FeatureCollection of Points, each with
-// properties id, name, category, street and priority: a marker file as fixtures.ReadMarkers reads it.
+// properties id, name, category, street and priority: a marker file as geofile.ReadMarkers reads it.
 func (s *Scenario) BusinessesGeoJSON() ([]byte, error) {
 	fc := geojson.NewFeatureCollection()
 	for _, b := range s.Businesses {
@@ -47,7 +47,7 @@ func (s *Scenario) BusinessesGeoJSON() ([]byte, error) {
 }
 
 // GeoJSON returns the drive as a GeoJSON Feature with a LineString and properties name and speed_mps
-// (one speed per segment, m/s): a route file as fixtures.ReadRoute reads it.
+// (one speed per segment, m/s): a route file as geofile.ReadRoute reads it.
 func (d Drive) GeoJSON() ([]byte, error) {
 	f := geojson.NewFeature(orb.LineString(d.Points))
 	f.Properties["name"] = d.Name
@@ -56,7 +56,7 @@ func (d Drive) GeoJSON() ([]byte, error) {
 }
 
 // MarkersCSV returns the businesses' markers as CSV lines id,lat,lon,priority after a header line: a
-// marker file as fixtures.ReadMarkers reads it. Latitude comes before longitude here, as in the CSV
+// marker file as geofile.ReadMarkers reads it. Latitude comes before longitude here, as in the CSV
 // format of SPEC §4.
 func (s *Scenario) MarkersCSV() []byte {
 	var b bytes.Buffer

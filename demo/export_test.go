@@ -11,10 +11,10 @@ import (
 	"github.com/paulmach/orb/geojson"
 
 	"github.com/viewspec/viewspec/demo"
-	"github.com/viewspec/viewspec/fixtures"
+	"github.com/viewspec/viewspec/geofile"
 )
 
-// Each drive's GeoJSON reads back with fixtures.ReadRoute to the very same points and speeds: every
+// Each drive's GeoJSON reads back with geofile.ReadRoute to the very same points and speeds: every
 // coordinate is a 7-decimal number and every speed a 1-decimal one, written in their shortest form.
 func TestDriveGeoJSONRoundTrip(t *testing.T) {
 	for _, seed := range testSeeds {
@@ -23,7 +23,7 @@ func TestDriveGeoJSONRoundTrip(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			rf, err := fixtures.ReadRoute("drive-"+d.Name+".geojson", b)
+			rf, err := geofile.ReadRoute("drive-"+d.Name+".geojson", b)
 			if err != nil {
 				t.Fatalf("New(%#x) %s: ReadRoute: %v", seed, d.Name, err)
 			}
@@ -37,7 +37,7 @@ func TestDriveGeoJSONRoundTrip(t *testing.T) {
 	}
 }
 
-// The businesses' GeoJSON and the CSV both read back with fixtures.ReadMarkers to the markers.
+// The businesses' GeoJSON and the CSV both read back with geofile.ReadMarkers to the markers.
 func TestMarkerFilesRoundTrip(t *testing.T) {
 	s := demo.Default()
 	gj, err := s.BusinessesGeoJSON()
@@ -45,7 +45,7 @@ func TestMarkerFilesRoundTrip(t *testing.T) {
 		t.Fatal(err)
 	}
 	for name, data := range map[string][]byte{"businesses.geojson": gj, "markers.csv": s.MarkersCSV()} {
-		ms, err := fixtures.ReadMarkers(name, data)
+		ms, err := geofile.ReadMarkers(name, data)
 		if err != nil {
 			t.Fatalf("ReadMarkers(%s): %v", name, err)
 		}

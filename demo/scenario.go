@@ -3,7 +3,7 @@ package demo
 import (
 	"fmt"
 
-	"github.com/viewspec/viewspec/viewport"
+	"github.com/viewspec/viewspec/timeline"
 )
 
 // DefaultSeed is the seed of the default town, Default(). Its bytes spell "PortWren".
@@ -42,8 +42,8 @@ func New(seed uint64) *Scenario {
 
 // Markers returns the businesses' markers (id, [lon, lat] degrees, priority) in the order of
 // Businesses.
-func (s *Scenario) Markers() []viewport.Marker {
-	out := make([]viewport.Marker, len(s.Businesses))
+func (s *Scenario) Markers() []timeline.Marker {
+	out := make([]timeline.Marker, len(s.Businesses))
 	for i, b := range s.Businesses {
 		out[i] = b.Marker
 	}
@@ -81,17 +81,17 @@ func (s *Scenario) RuleSet(name string) (RuleSet, bool) {
 }
 
 // TimelineDrive returns the timeline input (SPEC §5) for drive d on device dev with dev's rule set,
-// from the drive's start and with the defaults of viewport.NewDrive: a 120 s horizon, 0.25 s ticks,
+// from the drive's start and with the defaults of timeline.NewDrive: a 120 s horizon, 0.25 s ticks,
 // 4 markers at once, buckets at 5 and 35 s. The error is the route's (routes.New) or an unknown rule
 // set.
-func (s *Scenario) TimelineDrive(d Drive, dev Device) (viewport.Drive, error) {
+func (s *Scenario) TimelineDrive(d Drive, dev Device) (timeline.Drive, error) {
 	rt, err := d.Route()
 	if err != nil {
-		return viewport.Drive{}, fmt.Errorf("drive %s: %w", d.Name, err)
+		return timeline.Drive{}, fmt.Errorf("drive %s: %w", d.Name, err)
 	}
 	rs, ok := s.RuleSet(dev.Rules)
 	if !ok {
-		return viewport.Drive{}, fmt.Errorf("device %s: no rule set %q", dev.Name, dev.Rules)
+		return timeline.Drive{}, fmt.Errorf("device %s: no rule set %q", dev.Name, dev.Rules)
 	}
-	return viewport.NewDrive(rt, 0, dev.Device, rs.Set), nil
+	return timeline.NewDrive(rt, 0, dev.Device, rs.Set), nil
 }

@@ -4,11 +4,11 @@ import (
 	"testing"
 
 	"github.com/viewspec/viewspec/demo"
-	"github.com/viewspec/viewspec/viewport"
+	"github.com/viewspec/viewspec/timeline"
 )
 
-// buckets runs the drive timeline (SPEC §5, defaults of viewport.NewDrive) of drive on dev and counts
-// the markers per bucket, indexed by viewport.Bucket (Never, Early, Mid, Late).
+// buckets runs the drive timeline (SPEC §5, defaults of timeline.NewDrive) of drive on dev and counts
+// the markers per bucket, indexed by timeline.Bucket (Never, Early, Mid, Late).
 func buckets(t *testing.T, s *demo.Scenario, drive, dev string) [4]int {
 	t.Helper()
 	d, _ := s.Drive(drive)
@@ -17,7 +17,7 @@ func buckets(t *testing.T, s *demo.Scenario, drive, dev string) [4]int {
 	if err != nil {
 		t.Fatal(err)
 	}
-	res, err := viewport.Timeline(&vd, s.Markers())
+	res, err := timeline.Compute(&vd, s.Markers())
 	if err != nil {
 		t.Fatalf("%s on %s: Timeline: %v", drive, dev, err)
 	}
@@ -35,9 +35,9 @@ func TestTimelineHasSomethingToSee(t *testing.T) {
 		s := demo.New(seed)
 		for _, d := range s.Drives {
 			n := buckets(t, s, d.Name, demo.DevicePhonePortrait)
-			if n[viewport.Early] == 0 || n[viewport.Mid]+n[viewport.Late] == 0 || n[viewport.Never] == 0 {
+			if n[timeline.Early] == 0 || n[timeline.Mid]+n[timeline.Late] == 0 || n[timeline.Never] == 0 {
 				t.Errorf("New(%#x) %s on the portrait phone: early %d, mid %d, late %d, never %d; want some early, some later, some never",
-					seed, d.Name, n[viewport.Early], n[viewport.Mid], n[viewport.Late], n[viewport.Never])
+					seed, d.Name, n[timeline.Early], n[timeline.Mid], n[timeline.Late], n[timeline.Never])
 			}
 		}
 	}
@@ -49,7 +49,7 @@ func TestTimelineEveryDevice(t *testing.T) {
 	for _, d := range s.Drives {
 		for _, dv := range s.Devices {
 			n := buckets(t, s, d.Name, dv.Name)
-			if n[viewport.Never] == len(s.Businesses) {
+			if n[timeline.Never] == len(s.Businesses) {
 				t.Errorf("%s on %s: no marker ever shown", d.Name, dv.Name)
 			}
 		}

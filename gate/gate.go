@@ -17,9 +17,10 @@ import (
 	"slices"
 	"strings"
 
-	"github.com/viewspec/viewspec/fixtures"
+	"github.com/viewspec/viewspec/geofile"
 	"github.com/viewspec/viewspec/routes"
 	"github.com/viewspec/viewspec/rules"
+	"github.com/viewspec/viewspec/timeline"
 	"github.com/viewspec/viewspec/viewport"
 )
 
@@ -69,7 +70,7 @@ func ReadDrives(paths []string) ([]Drive, error) {
 		if err != nil {
 			return nil, err
 		}
-		rf, err := fixtures.ReadRoute(f, data)
+		rf, err := geofile.ReadRoute(f, data)
 		if err != nil {
 			return nil, err
 		}
@@ -87,7 +88,7 @@ func ReadDrives(paths []string) ([]Drive, error) {
 }
 
 // Buckets lists the buckets in report order.
-var Buckets = []viewport.Bucket{viewport.Early, viewport.Mid, viewport.Late, viewport.Never}
+var Buckets = []timeline.Bucket{timeline.Early, timeline.Mid, timeline.Late, timeline.Never}
 
 // Trace is what one rule set did on one drive, tick by tick.
 type Trace struct {
@@ -99,7 +100,7 @@ type Trace struct {
 
 // Run is one drive under one rule set.
 type Run struct {
-	Markers []viewport.MarkerTimeline
+	Markers []timeline.Result
 	Trace   Trace
 	// AreaS is the footprint's area integrated over the drive, m²·s.
 	AreaS float64
@@ -154,15 +155,15 @@ type Report struct {
 // Options are the drives' common inputs.
 type Options struct {
 	Device  viewport.Device
-	Markers []viewport.Marker
+	Markers []timeline.Marker
 	// Configure, when set, adjusts each drive before it runs (horizon,
 	// tick, cap, bucket edges).
-	Configure func(d *viewport.Drive)
+	Configure func(d *timeline.Drive)
 }
 
 // runDrive drives dr under rs and records the trace.
 func runDrive(dr Drive, rs *rules.Set, opt *Options) (Run, error) {
-	d := viewport.NewDrive(dr.Route, dr.StartAlongM, opt.Device, rs)
+	d := timeline.NewDrive(dr.Route, dr.StartAlongM, opt.Device, rs)
 	if opt.Configure != nil {
 		opt.Configure(&d)
 	}
@@ -177,7 +178,7 @@ func runDrive(dr Drive, rs *rules.Set, opt *Options) (Run, error) {
 		run.AreaS += v.Footprint().AreaM2 * d.TickS
 	}
 	d.OnBand = func(_, band int) { run.Trace.Band = append(run.Trace.Band, band) }
-	ms, err := viewport.Timeline(&d, opt.Markers)
+	ms, err := timeline.Compute(&d, opt.Markers)
 	if err != nil {
 		return run, fmt.Errorf("drive %s: %w", dr.Name, err)
 	}
@@ -185,7 +186,7 @@ func runDrive(dr Drive, rs *rules.Set, opt *Options) (Run, error) {
 	return run, nil
 }
 
-func bucketIndex(b viewport.Bucket) int { return slices.Index(Buckets, b) }
+func bucketIndex(b timeline.Bucket) int { return slices.Index(Buckets, b) }
 
 // Diff drives every drive under base and next and compares them.
 func Diff(drives []Drive, base, next *rules.Set, opt Options) (*Report, error) {
@@ -208,7 +209,7 @@ func Diff(drives []Drive, base, next *rules.Set, opt Options) (*Report, error) {
 	return rep, nil
 }
 
-func (dd *DriveDiff) compare(ms []viewport.Marker) {
+func (dd *DriveDiff) compare(ms []timeline.Marker) {
 	m := &dd.Measures
 	m.Markers = len(ms)
 	for i := range ms {
@@ -225,15 +226,15 @@ func (dd *DriveDiff) compare(ms []viewport.Marker) {
 			m.Moved++
 		}
 		switch {
-		case b.Bucket != viewport.Never && n.Bucket == viewport.Never:
+		case b.Bucket != timeline.Never && n.Bucket == timeline.Never:
 			m.NeverAdded++
-		case b.Bucket == viewport.Never && n.Bucket != viewport.Never:
+		case b.Bucket == timeline.Never && n.Bucket != timeline.Never:
 			m.NeverRemoved++
 		}
 		switch {
-		case b.Bucket == viewport.Early && n.Bucket != viewport.Early:
+		case b.Bucket == timeline.Early && n.Bucket != timeline.Early:
 			m.EarlyLost++
-		case b.Bucket != viewport.Early && n.Bucket == viewport.Early:
+		case b.Bucket != timeline.Early && n.Bucket == timeline.Early:
 			m.EarlyAdded++
 		}
 	}

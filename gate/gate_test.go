@@ -9,6 +9,7 @@ import (
 	"github.com/viewspec/viewspec/gate"
 	"github.com/viewspec/viewspec/routes"
 	"github.com/viewspec/viewspec/rules"
+	"github.com/viewspec/viewspec/timeline"
 	"github.com/viewspec/viewspec/viewport"
 )
 
@@ -28,14 +29,14 @@ func threeBands(topZoom float64) *rules.Set {
 
 // A fast drive: 30 m/s (108 km/h) north for 5 km, with markers on the road
 // every 150 m from 100 m to 4.6 km ahead.
-func fastDrive(t *testing.T) (gate.Drive, []viewport.Marker) {
+func fastDrive(t *testing.T) (gate.Drive, []timeline.Marker) {
 	r, err := routes.New([]orb.Point{{-31.17, 44.90}, {-31.17, 44.95}}, []float64{30})
 	if err != nil {
 		t.Fatal(err)
 	}
-	var ms []viewport.Marker
+	var ms []timeline.Marker
 	for i, d := 0, 100.0; d < 4600; i, d = i+1, d+150 {
-		ms = append(ms, viewport.Marker{ID: fmt.Sprintf("m%02d", i), Point: r.PointAt(d)})
+		ms = append(ms, timeline.Marker{ID: fmt.Sprintf("m%02d", i), Point: r.PointAt(d)})
 	}
 	return gate.Drive{Name: "fast", Route: r}, ms
 }
@@ -73,7 +74,7 @@ func TestDiffAgainstItself(t *testing.T) {
 // sooner by freeing a slot).
 func TestDiffRaisingTopZoom(t *testing.T) {
 	dr, ms := fastDrive(t)
-	opt := gate.Options{Device: phone(), Markers: ms, Configure: func(d *viewport.Drive) { d.Cap = len(ms) }}
+	opt := gate.Options{Device: phone(), Markers: ms, Configure: func(d *timeline.Drive) { d.Cap = len(ms) }}
 	rep, err := gate.Diff([]gate.Drive{dr}, threeBands(15), threeBands(17), opt)
 	if err != nil {
 		t.Fatal(err)

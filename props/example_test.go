@@ -6,15 +6,6 @@ import (
 	"github.com/viewspec/viewspec/props"
 )
 
-// Probing the reference against itself finds nothing: every drawn case is
-// answered the same through the wire.
-func ExampleProbe() {
-	f, err := props.Probe(props.Reference{}, props.ProbeOptions{Ops: []string{"project", "zoom"}, Checks: 50, Seed: 7})
-	fmt.Println(f == nil, err)
-	// Output:
-	// true <nil>
-}
-
 // A request generator draws labelled wire requests; the same seed draws the
 // same request.
 func ExampleProbeRequest() {

@@ -4,7 +4,7 @@ import (
 	"slices"
 	"testing"
 
-	"github.com/viewspec/viewspec/fixtures"
+	"github.com/viewspec/viewspec/corpus"
 	"github.com/viewspec/viewspec/props"
 )
 
@@ -22,7 +22,7 @@ func TestGeneratorsCoverFamilies(t *testing.T) {
 		for i := range 600 {
 			lr := gen.Example(i)
 			seen[lr.Family]++
-			if _, err := fixtures.NewCase("g", lr.Family, lr.Request); err != nil {
+			if _, err := corpus.NewCase("g", lr.Family, lr.Request); err != nil {
 				t.Fatalf("%s example %d: %v", op, i, err)
 			}
 		}

@@ -7,10 +7,10 @@ import (
 	"github.com/paulmach/orb"
 	"pgregory.net/rapid"
 
-	"github.com/viewspec/viewspec/fixtures"
 	"github.com/viewspec/viewspec/routes"
 	"github.com/viewspec/viewspec/rules"
 	"github.com/viewspec/viewspec/viewport"
+	"github.com/viewspec/viewspec/wire"
 )
 
 // The request generators below draw wire requests for the differential
@@ -128,19 +128,19 @@ func ProbeRequest(op string) *rapid.Generator[LabelledRequest] {
 // LabelledRequest is a wire request and the family it was drawn from.
 type LabelledRequest struct {
 	Family  string
-	Request *fixtures.Request
+	Request *wire.Request
 }
 
 func ptr(v float64) *float64 { return &v }
 
-func pointWire(p orb.Point) *fixtures.PointWire {
-	return &fixtures.PointWire{Lat: ptr(p[1]), Lon: ptr(p[0])}
+func pointWire(p orb.Point) *wire.Point {
+	return &wire.Point{Lat: ptr(p[1]), Lon: ptr(p[0])}
 }
 
 func cameraRequest(op string) *rapid.Generator[LabelledRequest] {
 	return rapid.Custom(func(t *rapid.T) LabelledRequest {
 		lc := ProbeCamera().Draw(t, "camera")
-		req := &fixtures.Request{Op: op, Camera: fixtures.WireCamera(lc.Camera)}
+		req := &wire.Request{Op: op, Camera: wire.CameraOf(lc.Camera)}
 		v, _ := viewport.Prepare(lc.Camera)
 		d := lc.Camera.Device
 		anchor := viewport.Pixel{X: d.AnchorX * d.WidthPx, Y: d.AnchorY * d.HeightPx}
@@ -153,7 +153,7 @@ func cameraRequest(op string) *rapid.Generator[LabelledRequest] {
 			}
 			switch op {
 			case "unproject":
-				req.Pixels = append(req.Pixels, &fixtures.PixelWire{X: ptr(px.X), Y: ptr(px.Y)})
+				req.Pixels = append(req.Pixels, &wire.Pixel{X: ptr(px.X), Y: ptr(px.Y)})
 			case "project":
 				p, ok := v.Unproject(px)
 				if !ok || math.Abs(p[1]) >= viewport.MaxLatDeg {
@@ -215,11 +215,6 @@ func probeRoute(t *rapid.T) (string, []orb.Point, []float64) {
 	return fam, pts, speeds
 }
 
-func routeWire(pts []orb.Point, speeds []float64) *fixtures.RouteWire {
-	rf := fixtures.RouteFile{Points: pts, SpeedsMps: speeds}
-	return rf.Wire()
-}
-
 // nearRoute draws a point around the route, within spanDeg.
 func nearRoute(t *rapid.T, r *routes.Route, spanDeg float64) orb.Point {
 	p := r.PointAt(rapid.Float64Range(0, 1).Draw(t, "along_frac") * r.LengthM())
@@ -240,12 +235,12 @@ func metricsRequest() *rapid.Generator[LabelledRequest] {
 			t.Skipf("invalid route: %v", err)
 		}
 		user := r.PointAt(rapid.Float64Range(0, 1).Draw(t, "user_frac") * r.LengthM())
-		req := &fixtures.Request{Op: "metrics", Route: routeWire(pts, speeds), User: pointWire(user)}
+		req := &wire.Request{Op: "metrics", Route: wire.RouteOf(pts, speeds), User: pointWire(user)}
 		n := rapid.IntRange(1, 6).Draw(t, "markers")
 		for i := range n {
 			id := fmt.Sprintf("m%d", i)
 			p := nearRoute(t, r, 0.004)
-			req.Markers = append(req.Markers, &fixtures.MarkerWire{ID: &id, Lat: ptr(p[1]), Lon: ptr(p[0])})
+			req.Markers = append(req.Markers, &wire.Marker{ID: &id, Lat: ptr(p[1]), Lon: ptr(p[0])})
 		}
 		if rapid.Bool().Draw(t, "with_camera") {
 			lc := ProbeCamera().Draw(t, "camera")
@@ -253,7 +248,7 @@ func metricsRequest() *rapid.Generator[LabelledRequest] {
 			if _, err := viewport.Prepare(lc.Camera); err != nil {
 				t.Skipf("invalid camera: %v", err)
 			}
-			req.Camera = fixtures.WireCamera(lc.Camera)
+			req.Camera = wire.CameraOf(lc.Camera)
 		}
 		return LabelledRequest{Family: fam, Request: req}
 	})
@@ -300,7 +295,7 @@ func zoomRequest() *rapid.Generator[LabelledRequest] {
 	return rapid.Custom(func(t *rapid.T) LabelledRequest {
 		fam := Family(ZoomFamilies...).Draw(t, "zoom_family")
 		rs := ProbeRules().Draw(t, "rules")
-		req := &fixtures.Request{Op: "zoom", Rules: rs}
+		req := &wire.Request{Op: "zoom", Rules: wire.RulesOf(rs)}
 		n := rapid.IntRange(1, 30).Draw(t, "samples")
 		ts := 0.0
 		for i := range n {
@@ -324,7 +319,7 @@ func zoomRequest() *rapid.Generator[LabelledRequest] {
 			case "speed_ramp":
 				speed = float64(i) * rapid.Float64Range(0, 3).Draw(t, "ramp")
 			}
-			req.Samples = append(req.Samples, &fixtures.SampleWire{TS: ptr(ts), SpeedMps: ptr(speed), TurnDistM: turn})
+			req.Samples = append(req.Samples, &wire.Sample{TS: ptr(ts), SpeedMps: ptr(speed), TurnDistM: turn})
 		}
 		return LabelledRequest{Family: fam, Request: req}
 	})
@@ -345,8 +340,8 @@ func timelineRequest() *rapid.Generator[LabelledRequest] {
 		capN := float64(rapid.IntRange(1, 6).Draw(t, "cap"))
 		e1 := rapid.Float64Range(0, horizon/2).Draw(t, "edge1")
 		e2 := rapid.Float64Range(e1+0.01, horizon).Draw(t, "edge2")
-		req := &fixtures.Request{Op: "timeline", Route: routeWire(pts, speeds), Rules: ProbeRules().Draw(t, "rules"),
-			Device:   fixtures.WireCamera(viewport.Camera{Device: d}).Device,
+		req := &wire.Request{Op: "timeline", Route: wire.RouteOf(pts, speeds), Rules: wire.RulesOf(ProbeRules().Draw(t, "rules")),
+			Device:   wire.CameraOf(viewport.Camera{Device: d}).Device,
 			HorizonS: &horizon, TickS: &tick, Cap: &capN, BucketEdgesS: []float64{e1, e2}}
 		if rapid.Bool().Draw(t, "mid_start") {
 			req.StartAlongM = ptr(rapid.Float64Range(0, 1).Draw(t, "start_frac") * r.LengthM())
@@ -355,7 +350,7 @@ func timelineRequest() *rapid.Generator[LabelledRequest] {
 		for i := range n {
 			id := fmt.Sprintf("m%d", i)
 			p := nearRoute(t, r, 0.004)
-			req.Markers = append(req.Markers, &fixtures.MarkerWire{ID: &id, Lat: ptr(p[1]), Lon: ptr(p[0]),
+			req.Markers = append(req.Markers, &wire.Marker{ID: &id, Lat: ptr(p[1]), Lon: ptr(p[0]),
 				Priority: ptr(float64(rapid.IntRange(0, 3).Draw(t, "priority")))})
 		}
 		// Every draw is a valid drive by construction (edges within the

@@ -6,6 +6,7 @@ import (
 
 	"github.com/paulmach/orb"
 
+	"github.com/viewspec/viewspec/timeline"
 	"github.com/viewspec/viewspec/viewport"
 )
 
@@ -57,7 +58,7 @@ func checkPoints(what string, n int, at func(i int) orb.Point) error {
 // drawn by their bucket in buckets (by id) when buckets is not nil, else by
 // whether v has them in view. Markers outside the map area are counted in a
 // note instead of drawn.
-func CameraSVG(v *viewport.View, route []orb.Point, markers []viewport.Marker, buckets map[string]viewport.Bucket, opts ...Option) ([]byte, error) {
+func CameraSVG(v *viewport.View, route []orb.Point, markers []timeline.Marker, buckets map[string]timeline.Bucket, opts ...Option) ([]byte, error) {
 	s, err := newSettings(opts)
 	if err != nil {
 		return nil, err

@@ -9,6 +9,7 @@ import (
 	"github.com/paulmach/orb"
 
 	"github.com/viewspec/viewspec/render"
+	"github.com/viewspec/viewspec/timeline"
 	"github.com/viewspec/viewspec/viewport"
 )
 
@@ -168,10 +169,10 @@ func TestRenderCameraScaleBar(t *testing.T) {
 func TestRenderCameraMarkersAndLegend(t *testing.T) {
 	v := prepare(t, demoCamera())
 	ms := demoMarkers()
-	ms = append(ms, viewport.Marker{ID: `<tap & "bar">`, Point: offset(orb.Point{demoLon, demoLat}, 10, 60)})
-	buckets := map[string]viewport.Bucket{
-		"bakery": viewport.Early, "chandlery": viewport.Mid, "ferry-stop": viewport.Late,
-		"fuel": viewport.Never, `<tap & "bar">`: viewport.Early,
+	ms = append(ms, timeline.Marker{ID: `<tap & "bar">`, Point: offset(orb.Point{demoLon, demoLat}, 10, 60)})
+	buckets := map[string]timeline.Bucket{
+		"bakery": timeline.Early, "chandlery": timeline.Mid, "ferry-stop": timeline.Late,
+		"fuel": timeline.Never, `<tap & "bar">`: timeline.Early,
 	}
 	svg, err := render.CameraSVG(v, demoRoutePoints(), ms, buckets, render.WithSpanM(3000))
 	if err != nil {
@@ -185,8 +186,8 @@ func TestRenderCameraMarkersAndLegend(t *testing.T) {
 	for _, g := range root.all(func(n *node) bool { return n.hasClass("marker") }) {
 		drawn[g.get("data-id")] = g
 	}
-	wantClass := map[viewport.Bucket]string{viewport.Early: "bucket-early", viewport.Mid: "bucket-mid",
-		viewport.Late: "bucket-late", viewport.Never: "bucket-never"}
+	wantClass := map[timeline.Bucket]string{timeline.Early: "bucket-early", timeline.Mid: "bucket-mid",
+		timeline.Late: "bucket-late", timeline.Never: "bucket-never"}
 	f := readFrame(t, root)
 	for _, m := range ms {
 		g, ok := drawn[m.ID]
@@ -306,7 +307,7 @@ func TestRenderCameraErrors(t *testing.T) {
 	if _, err := render.CameraSVG(v, badRoute, nil, nil); err == nil || !strings.Contains(err.Error(), "route[1]") {
 		t.Errorf("route latitude 91: error %v, want one naming route[1]", err)
 	}
-	badMarkers := []viewport.Marker{{ID: "x", Point: orb.Point{math.NaN(), 0}}}
+	badMarkers := []timeline.Marker{{ID: "x", Point: orb.Point{math.NaN(), 0}}}
 	if _, err := render.CameraSVG(v, nil, badMarkers, nil); err == nil || !strings.Contains(err.Error(), "markers[0]") {
 		t.Errorf("NaN marker: error %v, want one naming markers[0]", err)
 	}

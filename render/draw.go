@@ -5,6 +5,7 @@ import (
 
 	"github.com/paulmach/orb"
 
+	"github.com/viewspec/viewspec/timeline"
 	"github.com/viewspec/viewspec/viewport"
 )
 
@@ -90,7 +91,7 @@ func (w *writer) footprint(a *mapArea, fp *viewport.Footprint) {
 // the map area. With shown not nil (a page), each marker also gets a halo
 // that the page's style shows while the marker is shown, and the markers in
 // shown start with the class "shown".
-func (w *writer) markers(a *mapArea, ms []viewport.Marker, styleOf func(i int) markStyle, shown map[string]bool) (outside int) {
+func (w *writer) markers(a *mapArea, ms []timeline.Marker, styleOf func(i int) markStyle, shown map[string]bool) (outside int) {
 	w.open("g", "id", "markers")
 	w.raw("\n")
 	for i, m := range ms {

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"strconv"
 
+	"github.com/viewspec/viewspec/timeline"
 	"github.com/viewspec/viewspec/viewport"
 )
 
@@ -100,7 +101,7 @@ func traceSeries(rec *Recording, name string) (zoom, pitch Series) {
 }
 
 // bucketCounts returns the number of markers in each bucket, indexed by
-// viewport.Bucket.
+// timeline.Bucket.
 func bucketCounts(rec *Recording) [4]int {
 	var c [4]int
 	for _, m := range rec.Timeline {
@@ -120,7 +121,7 @@ func bucketCounts(rec *Recording) [4]int {
 // zoom, pitch and buckets. The recording is embedded as JSON (see the
 // package doc). Errors are RecordDrive's, or a view that wraps round the
 // world at some tick.
-func DriveHTML(d *viewport.Drive, markers []viewport.Marker, opts ...Option) ([]byte, error) {
+func DriveHTML(d *timeline.Drive, markers []timeline.Marker, opts ...Option) ([]byte, error) {
 	s, err := newSettings(opts)
 	if err != nil {
 		return nil, err
@@ -182,7 +183,7 @@ func DriveHTML(d *viewport.Drive, markers []viewport.Marker, opts ...Option) ([]
 		}
 		c := bucketCounts(r.rec)
 		w.text("li", fmt.Sprintf("%s: %d early, %d mid, %d late, %d never (of %d markers)",
-			r.name, c[viewport.Early], c[viewport.Mid], c[viewport.Late], c[viewport.Never], len(markers)))
+			r.name, c[timeline.Early], c[timeline.Mid], c[timeline.Late], c[timeline.Never], len(markers)))
 	}
 	w.close("ul")
 
@@ -268,7 +269,7 @@ func DriveHTML(d *viewport.Drive, markers []viewport.Marker, opts ...Option) ([]
 	if rec2 != nil {
 		c1, c2 := bucketCounts(&rec), bucketCounts(rec2)
 		var bars []Bar
-		for _, b := range []viewport.Bucket{viewport.Early, viewport.Mid, viewport.Late, viewport.Never} {
+		for _, b := range []timeline.Bucket{timeline.Early, timeline.Mid, timeline.Late, timeline.Never} {
 			bars = append(bars, Bar{Label: b.String(), Group: s.rulesName, Value: float64(c1[b])},
 				Bar{Label: b.String(), Group: s.compareName, Value: float64(c2[b])})
 		}

@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"github.com/viewspec/viewspec/render"
+	"github.com/viewspec/viewspec/timeline"
 	"github.com/viewspec/viewspec/viewport"
 )
 
@@ -165,7 +166,7 @@ func TestRenderDriveHTML(t *testing.T) {
 	}
 
 	// Markers on the map carry the timeline's buckets; the table lists all.
-	byID := map[string]viewport.Bucket{}
+	byID := map[string]timeline.Bucket{}
 	for i, m := range ms {
 		byID[m.ID] = res[i].Bucket
 	}
@@ -226,7 +227,7 @@ func TestRenderDriveHTMLCompare(t *testing.T) {
 			t.Errorf("%s legend %q does not name both rule sets", id, legend)
 		}
 	}
-	res2, err := viewport.Timeline(&d2, ms)
+	res2, err := timeline.Compute(&d2, ms)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -241,7 +242,7 @@ func TestRenderDriveHTMLCompare(t *testing.T) {
 	for _, b := range bars {
 		var want float64
 		for k := range counts {
-			if viewport.Bucket(k).String() == b.get("data-label") {
+			if timeline.Bucket(k).String() == b.get("data-label") {
 				want = counts[k]
 			}
 		}

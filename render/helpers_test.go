@@ -13,6 +13,7 @@ import (
 
 	"github.com/viewspec/viewspec/routes"
 	"github.com/viewspec/viewspec/rules"
+	"github.com/viewspec/viewspec/timeline"
 	"github.com/viewspec/viewspec/viewport"
 )
 
@@ -60,11 +61,11 @@ func demoRoutePoints() []orb.Point {
 // demoMarkers are shops and stops along the road and a few off it: ids in
 // byte order differ from priority order on purpose, and there are more
 // markers in view at the start than the cap.
-func demoMarkers() []viewport.Marker {
+func demoMarkers() []timeline.Marker {
 	pts := demoRoutePoints()
-	var ms []viewport.Marker
+	var ms []timeline.Marker
 	add := func(id string, p orb.Point, pr float64) {
-		ms = append(ms, viewport.Marker{ID: id, Point: p, Priority: pr})
+		ms = append(ms, timeline.Marker{ID: id, Point: p, Priority: pr})
 	}
 	add("bakery", offset(pts[0], 200, 300), 2)
 	add("chandlery", offset(pts[0], 290, 420), 1)
@@ -112,13 +113,13 @@ func carRules() *rules.Set {
 
 // demoDrive is 120 s of the harbour road: 14 m/s, then 24 m/s (86 km/h)
 // along the front, then 14 m/s.
-func demoDrive(t testing.TB, rs *rules.Set) viewport.Drive {
+func demoDrive(t testing.TB, rs *rules.Set) timeline.Drive {
 	t.Helper()
 	r, err := routes.New(demoRoutePoints(), []float64{14, 24, 14})
 	if err != nil {
 		t.Fatal(err)
 	}
-	return viewport.NewDrive(r, 0, demoDevice(), rs)
+	return timeline.NewDrive(r, 0, demoDevice(), rs)
 }
 
 // node is a parsed XML element.

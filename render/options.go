@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"math"
 
-	"github.com/viewspec/viewspec/viewport"
+	"github.com/viewspec/viewspec/timeline"
 )
 
 // Option changes how a picture or page is drawn. Options that do not apply
@@ -17,7 +17,7 @@ type settings struct {
 	title       string
 	rulesName   string
 	compareName string
-	compare     *viewport.Drive
+	compare     *timeline.Drive
 }
 
 func newSettings(opts []Option) (settings, error) {
@@ -65,6 +65,6 @@ func WithRulesName(name string) Option {
 // start and markers under another rule set. Its zoom and pitch are plotted
 // beside the first drive's, and its buckets are listed beside the first's;
 // the map shows the first drive only.
-func WithCompare(name string, other *viewport.Drive) Option {
+func WithCompare(name string, other *timeline.Drive) Option {
 	return func(s *settings) { s.compareName, s.compare = name, other }
 }

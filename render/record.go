@@ -6,6 +6,7 @@ import (
 
 	"github.com/paulmach/orb"
 
+	"github.com/viewspec/viewspec/timeline"
 	"github.com/viewspec/viewspec/viewport"
 )
 
@@ -31,21 +32,21 @@ type TickFrame struct {
 }
 
 // Recording is a drive recorded tick by tick: what RecordDrive saw through
-// viewport.Drive.OnTick, and the timeline's answer.
+// timeline.Drive.OnTick, and the timeline's answer.
 type Recording struct {
 	TickS, HorizonS float64
 	Cap             int
 	// Markers are the markers as given.
-	Markers []viewport.Marker
+	Markers []timeline.Marker
 	// Ticks holds ticks 0 … HorizonS/TickS.
 	Ticks []TickFrame
 	// Timeline is viewport.Timeline's answer, one per marker in order.
-	Timeline []viewport.MarkerTimeline
+	Timeline []timeline.Result
 }
 
 // Buckets returns each marker's bucket by id.
-func (r *Recording) Buckets() map[string]viewport.Bucket {
-	out := make(map[string]viewport.Bucket, len(r.Markers))
+func (r *Recording) Buckets() map[string]timeline.Bucket {
+	out := make(map[string]timeline.Bucket, len(r.Markers))
 	for i, m := range r.Markers {
 		out[m.ID] = r.Timeline[i].Bucket
 	}
@@ -57,7 +58,7 @@ func (r *Recording) Buckets() map[string]viewport.Bucket {
 // footprint and the ids of the markers shown. d is not changed (a copy gets
 // the recording hook, which calls d.OnTick too when it is set). Errors are
 // the timeline's, or a drive of more than MaxRecordedTicks ticks.
-func RecordDrive(d *viewport.Drive, markers []viewport.Marker) (Recording, error) {
+func RecordDrive(d *timeline.Drive, markers []timeline.Marker) (Recording, error) {
 	if d == nil {
 		return Recording{}, errors.New("render: no drive")
 	}
@@ -87,7 +88,7 @@ func RecordDrive(d *viewport.Drive, markers []viewport.Marker) (Recording, error
 			outer(k, v, shown)
 		}
 	}
-	res, err := viewport.Timeline(&run, markers)
+	res, err := timeline.Compute(&run, markers)
 	if err != nil {
 		return Recording{}, err
 	}

@@ -7,13 +7,14 @@ import (
 	"testing"
 
 	"github.com/viewspec/viewspec/render"
+	"github.com/viewspec/viewspec/timeline"
 	"github.com/viewspec/viewspec/viewport"
 )
 
 // timelineTicks runs viewport.Timeline with its own hook and returns, per
 // tick, the ids shown (in slot order) and the camera's zoom and pitch: the
 // reference the recordings are checked against.
-func timelineTicks(t testing.TB, d viewport.Drive, ms []viewport.Marker) (shown [][]string, zoom, pitch []float64, res []viewport.MarkerTimeline) {
+func timelineTicks(t testing.TB, d timeline.Drive, ms []timeline.Marker) (shown [][]string, zoom, pitch []float64, res []timeline.Result) {
 	t.Helper()
 	d.OnTick = func(k int, v *viewport.View, idx []int) {
 		if k != len(shown) {
@@ -27,7 +28,7 @@ func timelineTicks(t testing.TB, d viewport.Drive, ms []viewport.Marker) (shown 
 		c := v.Camera()
 		zoom, pitch = append(zoom, c.Zoom), append(pitch, c.PitchDeg)
 	}
-	res, err := viewport.Timeline(&d, ms)
+	res, err := timeline.Compute(&d, ms)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -40,7 +41,7 @@ func timelineTicks(t testing.TB, d viewport.Drive, ms []viewport.Marker) (shown 
 func TestRenderRecordDriveMatchesTimeline(t *testing.T) {
 	for _, rs := range []struct {
 		name string
-		d    viewport.Drive
+		d    timeline.Drive
 	}{{"phone", demoDrive(t, phoneRules())}, {"car", demoDrive(t, carRules())}} {
 		t.Run(rs.name, func(t *testing.T) {
 			ms := demoMarkers()

@@ -1,6 +1,6 @@
 package render
 
-import "github.com/viewspec/viewspec/viewport"
+import "github.com/viewspec/viewspec/timeline"
 
 // The picture's own palette. Each marker style differs in shape as well as
 // colour, so the pictures read in greyscale and for colour-blind readers.
@@ -52,13 +52,13 @@ var (
 )
 
 // bucketStyle returns the style of a bucket.
-func bucketStyle(b viewport.Bucket) markStyle {
+func bucketStyle(b timeline.Bucket) markStyle {
 	switch b {
-	case viewport.Early:
+	case timeline.Early:
 		return styleEarly
-	case viewport.Mid:
+	case timeline.Mid:
 		return styleMid
-	case viewport.Late:
+	case timeline.Late:
 		return styleLate
 	}
 	return styleNever

@@ -31,8 +31,8 @@
 //
 // # Errors
 //
-// New refuses bad input with an *InputError naming the field, its index and the value (for example
-// `points[3].lat = 91: out of range [-90, 90]`); ValidateLatLon gives callers the same check for
+// New refuses bad input with a *spec.FieldError naming the field, its index and the value (for example
+// `points[3].lat = 91: latitude must be finite and within [-90, 90]`); ValidateLatLon gives callers the same check for
 // their own points. The query methods (Snap, Metrics, PointAt, …) take positions that have passed
 // ValidateLatLon; along-route positions and times are clamped, never refused.
 //

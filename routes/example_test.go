@@ -4,6 +4,7 @@ import (
 	"fmt"
 
 	"github.com/paulmach/orb"
+
 	"github.com/viewspec/viewspec/routes"
 )
 
@@ -98,5 +99,5 @@ func ExampleRoute_Turns() {
 func ExampleNew_invalid() {
 	_, err := routes.New([]orb.Point{{13.4, 52.5}, {13.4, 91}}, []float64{10})
 	fmt.Println(err)
-	// Output: points[1].lat = 91: out of range [-90, 90]
+	// Output: points[1].lat = 91: latitude must be finite and within [-90, 90]
 }

@@ -7,6 +7,8 @@ import (
 	"github.com/golang/geo/r3"
 	"github.com/golang/geo/s2"
 	"github.com/paulmach/orb"
+
+	"github.com/viewspec/viewspec/spec"
 )
 
 // maxArcRad is the longest great-circle arc a segment may span. Nearer antipodal than this (about
@@ -82,7 +84,7 @@ func prepVec(v r3.Vector, ll orb.Point) ellPoint {
 // longitudes at a pole) or its ends are closer than the unit sphere resolves an arc between
 // them (distinct inputs about 1e-9 m apart or less).
 //
-// New returns an *InputError naming the first offending field: fewer than 2 points or fewer than 2
+// New returns a *spec.FieldError naming the first offending field: fewer than 2 points or fewer than 2
 // distinct vertices ("points"); a non-finite or out-of-range coordinate ("points[3].lat", latitude
 // in [-90, 90], longitude in [-180, 180]); a speed count other than 1 or len(points)−1
 // ("speed_mps"); a speed that is not finite and > 0 ("speed_mps" or "speed_mps[2]"); consecutive
@@ -90,16 +92,17 @@ func prepVec(v r3.Vector, ll orb.Point) ellPoint {
 // determined ("points[4]").
 func New(points []orb.Point, speedsMps []float64) (*Route, error) {
 	if len(points) < 2 {
-		return nil, &InputError{Field: "points", Value: fmt.Sprintf("%d given", len(points)),
+		return nil, &spec.FieldError{Field: "points", Value: fmt.Sprintf("%d given", len(points)),
 			Reason: "a route needs at least 2 distinct vertices"}
 	}
 	for i, p := range points {
-		if err := ValidateLatLon(fmt.Sprintf("points[%d]", i), p); err != nil {
-			return nil, err
+		// The path is formatted only when the check fails.
+		if !(p[1] >= -90 && p[1] <= 90 && p[0] >= -180 && p[0] <= 180) {
+			return nil, ValidateLatLon(spec.Index("points", i), p)
 		}
 	}
 	if len(speedsMps) != 1 && len(speedsMps) != len(points)-1 {
-		return nil, &InputError{Field: "speed_mps", Value: fmt.Sprintf("%d entries", len(speedsMps)),
+		return nil, &spec.FieldError{Field: "speed_mps", Value: fmt.Sprintf("%d entries", len(speedsMps)),
 			Reason: fmt.Sprintf("want 1 or %d (one per segment as given)", len(points)-1)}
 	}
 	if len(speedsMps) == 1 {
@@ -129,7 +132,7 @@ func New(points []orb.Point, speedsMps []float64) (*Route, error) {
 			continue // the ends differ but no arc is resolvable between them: zero-length
 		}
 		if kind == segAntipodal {
-			return nil, &InputError{Field: fmt.Sprintf("points[%d]", j),
+			return nil, &spec.FieldError{Field: fmt.Sprintf("points[%d]", j),
 				Value: fmt.Sprintf("[%s, %s]", formatValue(points[j][0]), formatValue(points[j][1])),
 				Reason: fmt.Sprintf("less than 6 m from antipodal to points[%d] [%s, %s]: the great-circle arc between consecutive vertices is not determined",
 					prevIdx, formatValue(points[prevIdx][0]), formatValue(points[prevIdx][1]))}
@@ -145,7 +148,7 @@ func New(points []orb.Point, speedsMps []float64) (*Route, error) {
 		prevIdx, prevVec, prevPrep = j, v, pp
 	}
 	if len(r.segs) == 0 {
-		return nil, &InputError{Field: "points", Value: fmt.Sprintf("%d given, 1 distinct", len(points)),
+		return nil, &spec.FieldError{Field: "points", Value: fmt.Sprintf("%d given, 1 distinct", len(points)),
 			Reason: "a route needs at least 2 distinct vertices"}
 	}
 	m := len(r.segs)
@@ -164,10 +167,10 @@ func New(points []orb.Point, speedsMps []float64) (*Route, error) {
 
 func checkSpeed(field string, v float64) error {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return &InputError{Field: field, Value: formatValue(v), Reason: "not a finite number"}
+		return &spec.FieldError{Field: field, Value: formatValue(v), Reason: "not a finite number"}
 	}
 	if v <= 0 {
-		return &InputError{Field: field, Value: formatValue(v), Reason: "must be > 0 m/s"}
+		return &spec.FieldError{Field: field, Value: formatValue(v), Reason: "must be > 0 m/s"}
 	}
 	return nil
 }

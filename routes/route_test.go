@@ -16,6 +16,8 @@ import (
 	"github.com/paulmach/orb"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
+
+	"github.com/viewspec/viewspec/spec"
 )
 
 func TestNewRefusesInvalidInput(t *testing.T) {
@@ -38,15 +40,15 @@ func TestNewRefusesInvalidInput(t *testing.T) {
 		{"one position as -180 and 180", []orb.Point{{-180, 2}, {180, 2}}, []float64{10}, "points", "2 given, 1 distinct",
 			"points = 2 given, 1 distinct: a route needs at least 2 distinct vertices"},
 		{"latitude above 90", []orb.Point{{0, 0}, {0, 1}, {0, 2}, {0, 91}}, []float64{10}, "points[3].lat", "91",
-			"points[3].lat = 91: out of range [-90, 90]"},
+			"points[3].lat = 91: latitude must be finite and within [-90, 90]"},
 		{"latitude below -90", []orb.Point{{0, -90.5}, {0, 1}}, []float64{10}, "points[0].lat", "-90.5",
-			"points[0].lat = -90.5: out of range [-90, 90]"},
+			"points[0].lat = -90.5: latitude must be finite and within [-90, 90]"},
 		{"longitude beyond -180", []orb.Point{{0, 0}, {-180.25, 1}}, []float64{10}, "points[1].lon", "-180.25",
-			"points[1].lon = -180.25: out of range [-180, 180]"},
+			"points[1].lon = -180.25: longitude must be finite and within [-180, 180]"},
 		{"latitude NaN", []orb.Point{{0, 0}, {0, nan}}, []float64{10}, "points[1].lat", "NaN",
-			"points[1].lat = NaN: not a finite number"},
+			"points[1].lat = NaN: latitude must be finite and within [-90, 90]"},
 		{"longitude +Inf", []orb.Point{{inf, 0}, {0, 1}}, []float64{10}, "points[0].lon", "+Inf",
-			"points[0].lon = +Inf: not a finite number"},
+			"points[0].lon = +Inf: longitude must be finite and within [-180, 180]"},
 		{"too many speeds", ok, []float64{1, 2, 3}, "speed_mps", "3 entries",
 			"speed_mps = 3 entries: want 1 or 2 (one per segment as given)"},
 		{"no speeds", ok, nil, "speed_mps", "0 entries",
@@ -65,8 +67,8 @@ func TestNewRefusesInvalidInput(t *testing.T) {
 			r, err := New(c.points, c.speeds)
 			require.Error(t, err)
 			assert.Nil(t, r)
-			var ie *InputError
-			require.True(t, errors.As(err, &ie), "error %v is not an *InputError", err)
+			var ie *spec.FieldError
+			require.True(t, errors.As(err, &ie), "error %v is not a *spec.FieldError", err)
 			assert.Equal(t, c.field, ie.Field)
 			assert.Equal(t, c.value, ie.Value)
 			assert.Equal(t, c.msg, err.Error())
@@ -74,22 +76,16 @@ func TestNewRefusesInvalidInput(t *testing.T) {
 	}
 }
 
-func TestInputErrorWithoutValue(t *testing.T) {
-	// Callers may report a field without a single value (a missing one, say).
-	err := &InputError{Field: "route", Reason: "missing"}
-	assert.EqualError(t, err, "route: missing")
-}
-
 func TestValidateLatLon(t *testing.T) {
 	assert.NoError(t, ValidateLatLon("user", orb.Point{180, -90}))
 	assert.NoError(t, ValidateLatLon("user", orb.Point{-180, 90}))
 	err := ValidateLatLon("markers[2]", orb.Point{10, 91})
-	assert.EqualError(t, err, "markers[2].lat = 91: out of range [-90, 90]")
+	assert.EqualError(t, err, "markers[2].lat = 91: latitude must be finite and within [-90, 90]")
 	err = ValidateLatLon("markers[0]", orb.Point{math.Inf(-1), 0})
-	assert.EqualError(t, err, "markers[0].lon = -Inf: not a finite number")
+	assert.EqualError(t, err, "markers[0].lon = -Inf: longitude must be finite and within [-180, 180]")
 	// Latitude is reported first when both are bad.
 	err = ValidateLatLon("p", orb.Point{math.NaN(), math.NaN()})
-	assert.EqualError(t, err, "p.lat = NaN: not a finite number")
+	assert.EqualError(t, err, "p.lat = NaN: latitude must be finite and within [-90, 90]")
 }
 
 func TestNewDropsZeroLengthSegments(t *testing.T) {

@@ -66,11 +66,11 @@ func (k Kind) String() string {
 // MarshalText writes the kind's name, so that reports encode it as a string.
 func (k Kind) MarshalText() ([]byte, error) { return []byte(k.String()), nil }
 
-// FieldError is one problem with one field of a rule set or of an evaluation's input. Field is a path in
+// Problem is one problem with one field of a rule set or of an evaluation's input. Field is a path in
 // the document's own names ("bands[1].zoom", "turn.within_m", "samples[3].t_s"; empty for the document
 // as a whole) and Msg says what is wrong with the value in it ("31 is outside [0, 30]"). File, Line and
 // Col are set when the rule set came from text ([Parse]); Line and Col are 1-based, 0 when unknown.
-type FieldError struct {
+type Problem struct {
 	Kind  Kind
 	Field string
 	Msg   string
@@ -80,7 +80,7 @@ type FieldError struct {
 }
 
 // Error formats the problem as "file:line:col: field: message", leaving out the parts that are unknown.
-func (e *FieldError) Error() string {
+func (e *Problem) Error() string {
 	var b strings.Builder
 	writePos(&b, e.File, e.Line, e.Col)
 	if e.Field != "" {
@@ -111,7 +111,7 @@ func writePos(b *strings.Builder, file string, line, col int) {
 
 // Errors is every problem found in one rule set, in a deterministic order (document order for a parsed
 // file, field order for [Set.Validate]). It is never returned empty: a nil error means no problem.
-type Errors []*FieldError
+type Errors []*Problem
 
 // Error lists the problems one a line.
 func (es Errors) Error() string {

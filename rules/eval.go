@@ -49,13 +49,13 @@ func (s *Set) Evaluate(samples []Sample) (zoom, pitchDeg []float64, err error) {
 	return zoom, pitchDeg, nil
 }
 
-func checkTime(samples []Sample, i int) *FieldError {
+func checkTime(samples []Sample, i int) *Problem {
 	t := samples[i].TS
 	if math.IsNaN(t) || math.IsInf(t, 0) {
-		return &FieldError{Kind: KindNotFinite, Field: "samples[" + strconv.Itoa(i) + "].t_s", Msg: notFiniteMsg(t)}
+		return &Problem{Kind: KindNotFinite, Field: "samples[" + strconv.Itoa(i) + "].t_s", Msg: notFiniteMsg(t)}
 	}
 	if i > 0 && !(t > samples[i-1].TS) {
-		return &FieldError{Kind: KindOrder, Field: "samples[" + strconv.Itoa(i) + "].t_s",
+		return &Problem{Kind: KindOrder, Field: "samples[" + strconv.Itoa(i) + "].t_s",
 			Msg: fmtNum(t) + " is not after samples[" + strconv.Itoa(i-1) + "].t_s " + fmtNum(samples[i-1].TS) +
 				": times must increase strictly"}
 	}
@@ -63,21 +63,21 @@ func checkTime(samples []Sample, i int) *FieldError {
 }
 
 // checkInput checks one sample's speed and turn distance; it allocates only when there is a problem.
-func checkInput(speedMps, turnDistM float64, hasTurn bool) *FieldError {
+func checkInput(speedMps, turnDistM float64, hasTurn bool) *Problem {
 	if math.IsNaN(speedMps) || math.IsInf(speedMps, 0) {
-		return &FieldError{Kind: KindNotFinite, Field: "speed_mps", Msg: notFiniteMsg(speedMps)}
+		return &Problem{Kind: KindNotFinite, Field: "speed_mps", Msg: notFiniteMsg(speedMps)}
 	}
 	if speedMps < 0 {
-		return &FieldError{Kind: KindRange, Field: "speed_mps", Msg: rangeMsg(speedMps, nonNegative)}
+		return &Problem{Kind: KindRange, Field: "speed_mps", Msg: rangeMsg(speedMps, nonNegative)}
 	}
 	if !hasTurn {
 		return nil
 	}
 	if math.IsNaN(turnDistM) || math.IsInf(turnDistM, 0) {
-		return &FieldError{Kind: KindNotFinite, Field: "turn_dist_m", Msg: notFiniteMsg(turnDistM)}
+		return &Problem{Kind: KindNotFinite, Field: "turn_dist_m", Msg: notFiniteMsg(turnDistM)}
 	}
 	if turnDistM < 0 {
-		return &FieldError{Kind: KindRange, Field: "turn_dist_m", Msg: rangeMsg(turnDistM, nonNegative)}
+		return &Problem{Kind: KindRange, Field: "turn_dist_m", Msg: rangeMsg(turnDistM, nonNegative)}
 	}
 	return nil
 }
@@ -127,13 +127,13 @@ func (s *Set) start(speedMps, turnDistM float64, hasTurn bool) State {
 // error the state is unchanged.
 func (st *State) Step(dtS, speedMps, turnDistM float64, hasTurn bool) error {
 	if st.set == nil {
-		return &FieldError{Kind: KindNotStarted, Msg: "Step on a State that Set.Start did not make"}
+		return &Problem{Kind: KindNotStarted, Msg: "Step on a State that Set.Start did not make"}
 	}
 	if math.IsNaN(dtS) || math.IsInf(dtS, 0) {
-		return &FieldError{Kind: KindNotFinite, Field: "dt_s", Msg: notFiniteMsg(dtS)}
+		return &Problem{Kind: KindNotFinite, Field: "dt_s", Msg: notFiniteMsg(dtS)}
 	}
 	if !(dtS > 0) {
-		return &FieldError{Kind: KindRange, Field: "dt_s", Msg: rangeMsg(dtS, positive)}
+		return &Problem{Kind: KindRange, Field: "dt_s", Msg: rangeMsg(dtS, positive)}
 	}
 	if e := checkInput(speedMps, turnDistM, hasTurn); e != nil {
 		return e

@@ -242,8 +242,8 @@ func TestEvaluateRejectsBadSamples(t *testing.T) {
 			z, p, err := s.Evaluate(c.samples)
 			require.Nil(t, z)
 			require.Nil(t, p)
-			var fe *FieldError
-			require.True(t, errors.As(err, &fe), "error %v is not a *FieldError", err)
+			var fe *Problem
+			require.True(t, errors.As(err, &fe), "error %v is not a *Problem", err)
 			require.Equal(t, c.kind, fe.Kind)
 			require.EqualError(t, err, c.wantError)
 		})
@@ -275,7 +275,7 @@ func TestEvaluateEdgeCases(t *testing.T) {
 func TestStateErrors(t *testing.T) {
 	var zero State
 	err := zero.Step(1, 1, 0, false)
-	var fe *FieldError
+	var fe *Problem
 	require.True(t, errors.As(err, &fe))
 	require.Equal(t, KindNotStarted, fe.Kind)
 

@@ -10,6 +10,11 @@ import (
 	"testing"
 )
 
+// wireWorked is a rule set as JSON, which is also YAML.
+const wireWorked = `{"bands": [{"below_kmh": 36, "zoom": 17, "pitch_deg": 40}, {"below_kmh": 72, "zoom": 16, "pitch_deg": 50},
+ {"zoom": 15, "pitch_deg": 60}], "hysteresis_kmh": 9, "max_zoom_rate_per_s": 0.5, "max_pitch_rate_deg_per_s": 10,
+ "turn": {"within_m": 200, "min_angle_deg": 30, "zoom": 16.5}, "min_zoom": 14, "max_zoom": 18, "max_turn_rate_deg_per_s": 90}`
+
 var errorLine = regexp.MustCompile(`^f\.yaml:[1-9][0-9]*(:[0-9]+)?: `)
 
 func FuzzParse(f *testing.F) {

@@ -193,7 +193,7 @@ func TestParseErrorFormat(t *testing.T) {
 	require.EqualError(t, err, "phone.yaml:7:14: bands[1].zoom: 31 is outside [0, 30]")
 	var errs Errors
 	require.ErrorAs(t, err, &errs)
-	require.Equal(t, FieldError{Kind: KindRange, Field: "bands[1].zoom", Msg: "31 is outside [0, 30]", File: "phone.yaml", Line: 7, Col: 14}, *errs[0])
+	require.Equal(t, Problem{Kind: KindRange, Field: "bands[1].zoom", Msg: "31 is outside [0, 30]", File: "phone.yaml", Line: 7, Col: 14}, *errs[0])
 
 	_, err = Parse(edit(7, "    zoom:    31"), "")
 	require.EqualError(t, err, "input:7:14: bands[1].zoom: 31 is outside [0, 30]", "an empty name is called input")
@@ -356,8 +356,8 @@ func TestFindingText(t *testing.T) {
 	require.Equal(t, "wide-hysteresis", string(b))
 	require.Equal(t, "kind(99)", Kind(99).String())
 	require.Equal(t, "severity(0)", Severity(0).String())
-	require.Equal(t, "x: m", (&FieldError{Field: "x", Msg: "m"}).Error())
-	require.Equal(t, "m", (&FieldError{Msg: "m"}).Error())
+	require.Equal(t, "x: m", (&Problem{Field: "x", Msg: "m"}).Error())
+	require.Equal(t, "m", (&Problem{Msg: "m"}).Error())
 }
 
 func mustReadRuleFile(t testing.TB, name string) []byte {

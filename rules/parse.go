@@ -20,7 +20,7 @@ import (
 // Parse reads a rule set from YAML text (comments allowed; JSON is YAML too, so JSON rule files and the
 // wire's rules object read the same way) and checks it: YAML syntax, the published schema ([Schema]),
 // then [Set.Validate]. name is how messages call the text, usually the file's base name. On any problem
-// it returns nil and an [Errors] whose every [FieldError] carries name, the 1-based line and column of
+// it returns nil and an [Errors] whose every [Problem] carries name, the 1-based line and column of
 // the offending YAML node and the field path, as in
 //
 //	phone.yaml:7:14: bands[1].zoom: 31 is outside [0, 30]
@@ -31,7 +31,7 @@ func Parse(data []byte, name string) (*Set, error) {
 	var errs Errors
 	for _, f := range fs {
 		if f.Severity == SeverityError {
-			errs = append(errs, &FieldError{Kind: f.Kind, Field: f.Field, Msg: f.Message, File: f.File, Line: f.Line, Col: f.Col})
+			errs = append(errs, &Problem{Kind: f.Kind, Field: f.Field, Msg: f.Message, File: f.File, Line: f.Line, Col: f.Col})
 		}
 	}
 	if len(errs) > 0 {

@@ -67,9 +67,9 @@ func checkNum(errs Errors, band int, leaf string, v float64, r interval) (Errors
 		field = bandField(band, leaf)
 	}
 	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return append(errs, &FieldError{Kind: KindNotFinite, Field: field, Msg: notFiniteMsg(v)}), false
+		return append(errs, &Problem{Kind: KindNotFinite, Field: field, Msg: notFiniteMsg(v)}), false
 	}
-	return append(errs, &FieldError{Kind: KindRange, Field: field, Msg: rangeMsg(v, r)}), false
+	return append(errs, &Problem{Kind: KindRange, Field: field, Msg: rangeMsg(v, r)}), false
 }
 
 func notFiniteMsg(v float64) string { return fmtNum(v) + " is not a finite number" }
@@ -93,9 +93,9 @@ func bandField(i int, leaf string) string {
 // Validate checks a rule set's values: every number finite and in its interval (zoom levels in [0, 30],
 // pitch in [0, 90), rates > 0, hysteresis ≥ 0, within_m ≥ 0, min_angle_deg in (0, 180], band edges > 0),
 // at least one band, below_kmh on every band but the last and not on the last, edges strictly increasing,
-// min_zoom ≤ max_zoom. It returns nil or an [Errors] with one [FieldError] per problem in field order,
+// min_zoom ≤ max_zoom. It returns nil or an [Errors] with one [Problem] per problem in field order,
 // and allocates nothing when the set is valid. Presence of the other fields is the decoder's job
-// ([Set.UnmarshalJSON], [Parse]): a Go value always has them.
+// ([Parse], and the wire package for requests): a Go value always has them.
 func (s *Set) Validate() error {
 	if errs := s.appendErrors(nil); len(errs) > 0 {
 		return errs
@@ -106,27 +106,27 @@ func (s *Set) Validate() error {
 func (s *Set) appendErrors(errs Errors) Errors {
 	last := len(s.Bands) - 1
 	if last < 0 {
-		errs = append(errs, &FieldError{Kind: KindMissing, Field: "bands", Msg: msgNoBands})
+		errs = append(errs, &Problem{Kind: KindMissing, Field: "bands", Msg: msgNoBands})
 	}
 	prevEdge, prevOK := 0.0, false
 	for i := range s.Bands {
 		b := &s.Bands[i]
 		switch {
 		case i < last && b.BelowKmh == nil:
-			errs = append(errs, &FieldError{Kind: KindMissing, Field: bandField(i, "below_kmh"), Msg: msgMissingEdge})
+			errs = append(errs, &Problem{Kind: KindMissing, Field: bandField(i, "below_kmh"), Msg: msgMissingEdge})
 			prevOK = false
 		case i < last:
 			var ok bool
 			edge := *b.BelowKmh
 			if errs, ok = checkNum(errs, i, "below_kmh", edge, positive); ok && prevOK && !(edge > prevEdge) {
-				errs = append(errs, &FieldError{Kind: KindOrder, Field: bandField(i, "below_kmh"),
+				errs = append(errs, &Problem{Kind: KindOrder, Field: bandField(i, "below_kmh"),
 					Msg: fmtNum(edge) + " is not above bands[" + strconv.Itoa(i-1) + "].below_kmh " + fmtNum(prevEdge) +
 						": band edges must increase strictly"})
 				ok = false
 			}
 			prevEdge, prevOK = edge, ok
 		case b.BelowKmh != nil:
-			errs = append(errs, &FieldError{Kind: KindLastEdge, Field: bandField(i, "below_kmh"), Msg: lastEdgeMsg(*b.BelowKmh)})
+			errs = append(errs, &Problem{Kind: KindLastEdge, Field: bandField(i, "below_kmh"), Msg: lastEdgeMsg(*b.BelowKmh)})
 		}
 		errs, _ = checkNum(errs, i, "zoom", b.Zoom, zoomLevels)
 		errs, _ = checkNum(errs, i, "pitch_deg", b.PitchDeg, pitchDegs)
@@ -141,7 +141,7 @@ func (s *Set) appendErrors(errs Errors) Errors {
 	errs, minOK = checkNum(errs, -1, "min_zoom", s.MinZoom, zoomLevels)
 	errs, maxOK = checkNum(errs, -1, "max_zoom", s.MaxZoom, zoomLevels)
 	if minOK && maxOK && s.MinZoom > s.MaxZoom {
-		errs = append(errs, &FieldError{Kind: KindMinAboveMax, Field: "min_zoom",
+		errs = append(errs, &Problem{Kind: KindMinAboveMax, Field: "min_zoom",
 			Msg: fmtNum(s.MinZoom) + " is above max_zoom " + fmtNum(s.MaxZoom)})
 	}
 	errs, _ = checkNum(errs, -1, "max_turn_rate_deg_per_s", s.MaxTurnRateDegPerS, positive)
@@ -163,7 +163,7 @@ func (s *Set) warnings() Errors {
 	lowest := 0
 	for j := 1; j < len(s.Bands); j++ {
 		if z := s.Bands[j].Zoom; z > s.Bands[lowest].Zoom {
-			ws = append(ws, &FieldError{Kind: KindZoomRises, Field: bandField(j, "zoom"),
+			ws = append(ws, &Problem{Kind: KindZoomRises, Field: bandField(j, "zoom"),
 				Msg: "zoom " + fmtNum(z) + " is above zoom " + fmtNum(s.Bands[lowest].Zoom) + " of the slower bands[" +
 					strconv.Itoa(lowest) + "]: the map would zoom in as the speed rises"})
 		} else if z < s.Bands[lowest].Zoom {
@@ -176,7 +176,7 @@ func (s *Set) warnings() Errors {
 		hi := *s.Bands[i].BelowKmh
 		if i == 0 {
 			if h >= hi {
-				ws = append(ws, &FieldError{Kind: KindWideHysteresis, Field: bandField(0, "below_kmh"),
+				ws = append(ws, &Problem{Kind: KindWideHysteresis, Field: bandField(0, "below_kmh"),
 					Msg: "hysteresis_kmh " + fmtNum(h) + " is at least the first band's upper edge " + fmtNum(hi) +
 						": once the speed reaches " + fmtNum(hi+h) + " km/h the first band is never entered again (that needs a speed below " +
 						fmtNum(hi-h) + ")"})
@@ -185,14 +185,14 @@ func (s *Set) warnings() Errors {
 		}
 		lo := *s.Bands[i-1].BelowKmh
 		if w := hi - lo; 2*h >= w {
-			ws = append(ws, &FieldError{Kind: KindWideHysteresis, Field: bandField(i, "below_kmh"),
+			ws = append(ws, &Problem{Kind: KindWideHysteresis, Field: bandField(i, "below_kmh"),
 				Msg: "hysteresis_kmh " + fmtNum(h) + " is at least half the width " + fmtNum(w) + " of bands[" + strconv.Itoa(i) +
 					"] (" + fmtNum(lo) + " to " + fmtNum(hi) + " km/h): speeding up it is held on [" + fmtNum(lo+h) + ", " +
 					fmtNum(hi+h) + "), slowing down on [" + fmtNum(lo-h) + ", " + fmtNum(hi-h) + "), and no speed is in both"})
 		}
 	}
 	if len(s.Bands) > 0 && !s.turnCanAct() {
-		ws = append(ws, &FieldError{Kind: KindTurnInert, Field: "turn.zoom", Msg: s.turnInertMsg()})
+		ws = append(ws, &Problem{Kind: KindTurnInert, Field: "turn.zoom", Msg: s.turnInertMsg()})
 	}
 	return ws
 }

@@ -27,7 +27,7 @@ func TestValidateProblems(t *testing.T) {
 	cases := []struct {
 		name string
 		edit func(*Set)
-		want []string // kind and message of each FieldError, in order
+		want []string // kind and message of each Problem, in order
 	}{
 		{"no bands", func(s *Set) { s.Bands = nil }, []string{"missing bands: empty: at least one band is needed"}},
 		{"edge missing on a middle band", func(s *Set) { s.Bands[0].BelowKmh = nil },
@@ -79,7 +79,7 @@ func TestValidateProblems(t *testing.T) {
 				got = append(got, e.Kind.String()+" "+e.Error())
 			}
 			require.Equal(t, c.want, got)
-			var fe *FieldError
+			var fe *Problem
 			require.True(t, errors.As(err, &fe), "each problem is reachable with errors.As")
 		})
 	}

@@ -82,7 +82,7 @@ func BenchmarkPlaceAgain(b *testing.B) {
 	var v viewport.View
 	for i := 0; i < b.N; i++ {
 		c.LatDeg = benchCamera.LatDeg + float64(i%1000)*1e-5
-		if err := v.Replace(c); err != nil {
+		if err := v.Place(c); err != nil {
 			b.Fatal(err)
 		}
 	}

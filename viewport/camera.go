@@ -4,6 +4,8 @@ import (
 	"math"
 
 	"github.com/paulmach/orb"
+
+	"github.com/viewspec/viewspec/spec"
 )
 
 // Device describes the screen a camera draws on. Sizes are logical pixels.
@@ -72,8 +74,8 @@ func (c *Camera) checkAnchor(f, sinP, cosP float64) error {
 	d := c.Device
 	b := d.HeightPx/2 - d.AnchorY*d.HeightPx
 	if f*cosP-b*sinP <= 0 {
-		return &FieldError{Field: "device.anchor_y", Value: d.AnchorY,
-			Reason: "the anchor pixel is at or above the horizon at pitch " + FormatNumber(c.PitchDeg) + "°"}
+		return spec.Out("device.anchor_y", d.AnchorY,
+			"the anchor pixel is at or above the horizon at pitch "+FormatNumber(c.PitchDeg)+"°")
 	}
 	return nil
 }
@@ -123,13 +125,13 @@ func (c *Camera) validateFields() error {
 	}
 	for _, k := range checks {
 		if !k.ok {
-			return &FieldError{Field: k.field, Value: k.v, Reason: k.why}
+			return spec.Out(k.field, k.v, k.why)
 		}
 	}
 	if w := d.WidthPx - d.InsetLeftPx - d.InsetRightPx; !(w > 0) {
-		return &FieldError{Field: "device.inset_left_px+inset_right_px", Value: d.InsetLeftPx + d.InsetRightPx,
-			Reason: "insets leave no clear area (they must sum to less than width_px " + FormatNumber(d.WidthPx) + ")"}
+		return spec.Out("device.inset_left_px+inset_right_px", d.InsetLeftPx+d.InsetRightPx,
+			"insets leave no clear area (they must sum to less than width_px "+FormatNumber(d.WidthPx)+")")
 	}
-	return &FieldError{Field: "device.inset_top_px+inset_bottom_px", Value: d.InsetTopPx + d.InsetBottomPx,
-		Reason: "insets leave no clear area (they must sum to less than height_px " + FormatNumber(d.HeightPx) + ")"}
+	return spec.Out("device.inset_top_px+inset_bottom_px", d.InsetTopPx+d.InsetBottomPx,
+		"insets leave no clear area (they must sum to less than height_px "+FormatNumber(d.HeightPx)+")")
 }

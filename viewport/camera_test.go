@@ -6,6 +6,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/viewspec/viewspec/spec"
 	"github.com/viewspec/viewspec/viewport"
 )
 
@@ -61,7 +62,7 @@ func TestCameraValidate(t *testing.T) {
 			c := validCamera()
 			tc.mutate(&c)
 			err := c.Validate()
-			var fe *viewport.FieldError
+			var fe *spec.FieldError
 			if !errors.As(err, &fe) {
 				t.Fatalf("Validate() = %v, want a *FieldError", err)
 			}

@@ -2,39 +2,17 @@ package viewport
 
 import "math"
 
-// TimelineNaive is the timeline with the naive visibility search: a camera
-// prepared in full and every marker projected from latitude and longitude
-// at every tick. It is the test oracle of the indexed search and the
-// baseline of its benchmark.
-func TimelineNaive(d *Drive, ms []Marker) ([]MarkerTimeline, error) {
-	r, err := newRun(d, ms)
-	if err != nil {
-		return nil, err
-	}
-	r.see = func(r *driveRun, k int32, v *View) {
-		full, err := Prepare(v.cam)
-		if err != nil {
-			panic(err) // place accepted the same camera
-		}
-		for i, m := range ms {
-			r.setIn(int32(i), full.Project(m.Point).InView())
-		}
-	}
-	return r.run()
-}
-
-// TimelineChecked is Timeline checking, at every tick, that the indexed
-// search finds exactly the markers ProjectMercator puts in view, each
-// once. It returns the first tick where it does not and the marker, or −1.
-func TimelineChecked(d *Drive, ms []Marker) (out []MarkerTimeline, badTick, badMarker int, err error) {
-	r, err := newRun(d, ms)
-	if err != nil {
-		return nil, -1, -1, err
-	}
-	badTick, badMarker = -1, -1
-	count := make([]int, len(ms))
-	r.see = func(r *driveRun, k int32, v *View) {
-		r.seeIndexed(k, v)
+// CheckedTracker returns a tracker of points that checks, at every See,
+// that its indexed search finds exactly the points ProjectMercator puts in
+// view, each once, with the list and its positions in agreement; bad
+// returns the first step (counted from 0) where it did not and the point,
+// or −1, −1.
+func CheckedTracker(points []Mercator) (tr *Tracker, bad func() (step, point int)) {
+	tr = NewTracker(points)
+	badStep, badPoint, step := -1, -1, 0
+	count := make([]int, len(points))
+	tr.see = func(r *Tracker, v *View) {
+		r.seeIndexed(v)
 		clear(count)
 		for p, i := range r.visible {
 			count[i]++
@@ -47,13 +25,13 @@ func TimelineChecked(d *Drive, ms []Marker) (out []MarkerTimeline, badTick, badM
 			if v.ProjectMercator(m).InView() {
 				want = 1
 			}
-			if (count[i] != want || r.in[i] != (want == 1)) && badTick < 0 {
-				badTick, badMarker = int(k), i
+			if (count[i] != want || r.in[i] != (want == 1)) && badStep < 0 {
+				badStep, badPoint = step, i
 			}
 		}
+		step++
 	}
-	out, err = r.run()
-	return out, badTick, badMarker, err
+	return tr, func() (int, int) { return badStep, badPoint }
 }
 
 // QuickTest runs the timeline's quick test of v on m: whether its answer
@@ -67,15 +45,6 @@ func QuickTest(v *View, m Mercator) (sure, in bool, distM float64, ok bool) {
 	q := v.quickOf(&s)
 	d := q.signedPx(ShortDXM(m.X-q.tx), m.Y-q.ty)
 	return math.Abs(d) > q.tolPx, d < 0, math.Abs(d) * q.invScale, true
-}
-
-// Replace places v for c again, as the drive timeline does at every tick,
-// keeping the terms whose inputs did not change.
-func (v *View) Replace(c Camera) error {
-	if err := c.validateFields(); err != nil {
-		return err
-	}
-	return v.place(&c)
 }
 
 // SafeDistanceM returns the drive timeline's safe distance for the

@@ -4,15 +4,17 @@ import (
 	"math"
 
 	"github.com/paulmach/orb"
+
+	"github.com/viewspec/viewspec/spec"
 )
 
 // EarthRadiusM is the radius of the Web Mercator sphere in metres: the WGS84
 // semi-major axis, as EPSG:3857 (method 1024) prescribes.
-const EarthRadiusM = 6378137.0
+const EarthRadiusM = spec.WGS84SemiMajorM
 
 // MaxLatDeg is the latitude, in degrees, at which the Web Mercator square
 // ends: the world is as tall as it is wide, y = ±πR.
-const MaxLatDeg = 85.0511287798066
+const MaxLatDeg = spec.MercatorMaxLatDeg
 
 // worldWidthM is the width of the Mercator world, 2πR metres.
 const worldWidthM = 2 * math.Pi * EarthRadiusM

@@ -41,7 +41,7 @@ type View struct {
 	wrapped                  bool
 
 	// The clear area's sides relative to the principal point, for the
-	// quick test.
+	// tracker's quick test (tracker.go).
 	leftC, rightC float64
 }
 
@@ -57,75 +57,6 @@ func Prepare(c Camera) (View, error) {
 		return View{}, err
 	}
 	return v, nil
-}
-
-// place prepares v for c, whose fields are known valid (validateFields):
-// everything but the anchor's horizon check, which depends on the pitch and
-// is made here. The drive timeline places the same two Views again and
-// again, so the terms of the device, the pitch, the zoom and the heading
-// are kept from the camera v was last placed for when those inputs are the
-// same (bit for bit): the same numbers, without their trigonometry.
-func (v *View) place(c *Camera) error {
-	return v.placeKnown(c, v.focal > 0 && c.Device == v.cam.Device)
-}
-
-// placeKnown is place for a caller that knows whether c's device is the
-// one v was last placed for (v placed, its device the same): a drive's
-// always is, and comparing devices costs as much as the rest.
-func (v *View) placeKnown(c *Camera, sameDevice bool) error {
-	d := &c.Device
-	old := &v.cam
-	samePitch := sameDevice && math.Float64bits(c.PitchDeg) == math.Float64bits(old.PitchDeg)
-	sameZoom := sameDevice && math.Float64bits(c.Zoom) == math.Float64bits(old.Zoom)
-	sameHeading := sameDevice && math.Float64bits(c.HeadingDeg) == math.Float64bits(old.HeadingDeg)
-	if !sameDevice {
-		v.focal = d.HeightPx / 2 / math.Tan(d.FovYDeg*(math.Pi/180)/2)
-		v.cx, v.cy = d.WidthPx/2, d.HeightPx/2
-		v.left, v.right = d.InsetLeftPx, d.WidthPx-d.InsetRightPx
-		v.top, v.bottom = d.InsetTopPx, d.HeightPx-d.InsetBottomPx
-		v.leftC, v.rightC = v.left-v.cx, v.right-v.cx
-		v.maxDepth = d.FarRatio * v.focal
-	}
-	if !samePitch {
-		v.sinP, v.cosP = math.Sincos(c.PitchDeg * (math.Pi / 180))
-		if err := c.checkAnchor(v.focal, v.sinP, v.cosP); err != nil {
-			v.focal = 0 // nothing kept: v is not placed
-			return err
-		}
-		v.fCosP = v.focal * v.cosP
-		v.farRow = math.Inf(-1)
-		if v.sinP > 0 {
-			// y at v_far = (k−1)·f/sin θ, where depth = k·f:
-			// y = cy − f·v·cos θ/(k·f) = cy − (k−1)·f·cos θ/(k·sin θ).
-			v.farRow = v.cy - (d.FarRatio-1)*v.focal*v.cosP/(d.FarRatio*v.sinP)
-		}
-		// The anchor is below the horizon (checked above).
-		v.uA, v.vA, _ = v.groundOfPixel(d.AnchorX*d.WidthPx, d.AnchorY*d.HeightPx)
-	}
-	if !sameZoom {
-		v.scale = ScalePxPerM(c.Zoom, d.TilePx)
-	}
-	if !sameHeading {
-		v.sinH, v.cosH = math.Sincos(c.HeadingDeg * (math.Pi / 180))
-	}
-	if !(samePitch && sameZoom && sameHeading) {
-		v.sCosH, v.sSinH = v.scale*v.cosH, v.scale*v.sinH
-		v.dX, v.dY = v.sinP*v.sSinH, v.sinP*v.sCosH
-		v.xX, v.xY = v.focal*v.sCosH, -v.focal*v.sSinH
-		v.yX, v.yY = -v.fCosP*v.sSinH, -v.fCosP*v.sCosH
-	}
-	v.cam = *c
-
-	v.user = ToMercator(c.User())
-	v.groundScale = GroundScale(c.LatDeg)
-	v.target = Mercator{
-		X: v.user.X - (v.uA*v.cosH+v.vA*v.sinH)/v.scale,
-		Y: v.user.Y - (-v.uA*v.sinH+v.vA*v.cosH)/v.scale,
-	}
-	if !(samePitch && sameZoom && sameHeading) {
-		v.wrapped = v.reachesHalfWorld() // it does not depend on the position
-	}
-	return nil
 }
 
 // reachesHalfWorld reports whether any ground seen on the screen (down to
@@ -298,87 +229,6 @@ func (v *View) ProjectMercator(m Mercator) ScreenPoint {
 	// the margin keeps InView and MarginPx consistent to the last bit.
 	margin := min(x-v.left, v.right-x, y-v.top, v.bottom-y, y-v.farRow)
 	return ScreenPoint{X: x, Y: y, DepthPx: depth, MarginPx: margin}
-}
-
-// quickTest is one view's in-view test for batches of points, as four
-// linear forms in the Mercator offset (dx, dy) from T: the signed distances
-// in world pixels from the footprint's four lines, positive outside — its
-// near and far rows (v = vNear, v = vFar in the ground frame) and its sides
-// (f·u = (left − cx)·depth and f·u = (right − cx)·depth with
-// depth = f + v·sin θ, which are lines in the ground plane). Their largest,
-// d, has no division in it. An answer counts as sure when |d| exceeds
-// 1e-9 of the footprint's magnitudes, far beyond the ~1e-16 relative
-// rounding of this form and of ProjectMercator's, so a sure answer is
-// exactly ProjectMercator's; the rest must be asked of ProjectMercator.
-//
-// d also bounds the distance to the footprint: outside, the distance to
-// the farthest line whose wrong side the point is on is a lower bound on
-// its distance to the (convex) footprint; inside, −d is the distance to
-// its boundary.
-type quickTest struct {
-	tx, ty     float64 // T, Mercator metres
-	wX, wY     float64 // v = wX·dx + wY·dy
-	vMid       float64 // the v midway between the near and far rows, world pixels
-	halfV      float64 // half the v from the near row to the far: both rows' distance is |v − vMid| − halfV
-	aX, aY, aC float64 // the left side's distance: aX·dx + aY·dy + aC
-	bX, bY, bC float64 // the right side's
-	tolPx      float64 // the sure margin, world pixels
-	invScale   float64 // Mercator metres per world pixel
-}
-
-// signedPx returns d, the largest of the four signed distances (world
-// pixels, positive outside), for the Mercator offset (dx, dy) from T.
-func (q *quickTest) signedPx(dx, dy float64) float64 {
-	w := q.wX*dx + q.wY*dy
-	return max(math.Abs(w-q.vMid)-q.halfV, q.aX*dx+q.aY*dy+q.aC, q.bX*dx+q.bY*dy+q.bC)
-}
-
-// quickShape is what the quick test takes from the device and the pitch
-// alone: the trapezoid in the ground frame (ok false when it is empty),
-// the sides' gradient lengths, and the sure margin. The drive timeline
-// keeps it while the pitch stays.
-type quickShape struct {
-	uv     [4][2]float64
-	ok     bool
-	ga, gb float64 // 1 / the left and right sides' gradient lengths
-	tolPx  float64
-}
-
-// quickShapeOf returns the quick test's shape of the view.
-func (v *View) quickShapeOf() quickShape {
-	var s quickShape
-	if s.uv, _, _, s.ok = v.trapezoid(); !s.ok {
-		return s
-	}
-	f, sinP := v.focal, v.sinP
-	s.ga = 1 / math.Hypot(f, v.leftC*sinP)
-	s.gb = 1 / math.Hypot(f, v.rightC*sinP)
-	span := f
-	for _, p := range s.uv {
-		span += math.Abs(p[0]) + math.Abs(p[1])
-	}
-	s.tolPx = 1e-9 * span
-	return s
-}
-
-// quickOf returns the quick test of the view, whose shape s (not empty)
-// is from quickShapeOf.
-func (v *View) quickOf(s *quickShape) quickTest {
-	f, sinP := v.focal, v.sinP
-	sc, ss := v.sCosH, v.sSinH
-	ga, gb := s.ga, s.gb
-	// u = sc·dx − ss·dy and v = ss·dx + sc·dy (world pixels). The left
-	// side's value −(f·u − leftC·depth), over its gradient's length in
-	// (u, v), is its signed distance; likewise the right side's with the
-	// sign turned.
-	return quickTest{
-		tx: v.target.X, ty: v.target.Y, wX: ss, wY: sc,
-		vMid: (s.uv[0][1] + s.uv[3][1]) / 2, halfV: (s.uv[3][1] - s.uv[0][1]) / 2,
-		aX: ga * (v.leftC*sinP*ss - f*sc), aY: ga * (v.leftC*sinP*sc + f*ss), aC: ga * v.leftC * f,
-		bX: gb * (f*sc - v.rightC*sinP*ss), bY: -gb * (f*ss + v.rightC*sinP*sc), bC: -gb * v.rightC * f,
-		tolPx:    s.tolPx,
-		invScale: 1 / v.scale,
-	}
 }
 
 // InView reports whether the Mercator point m is in view: it has a pixel in

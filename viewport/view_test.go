@@ -469,7 +469,7 @@ func TestPlaceAgainIsPrepare(t *testing.T) {
 				if _, err := viewport.Prepare(bad); err == nil {
 					t.Fatalf("step %d: %+v prepared, want an anchor error", step, bad)
 				}
-				if err := v.Replace(bad); err == nil {
+				if err := v.Place(bad); err == nil {
 					t.Fatalf("step %d: %+v placed again, want an anchor error", step, bad)
 				}
 				continue
@@ -493,7 +493,7 @@ func TestPlaceAgainIsPrepare(t *testing.T) {
 			}
 			c = next
 			want, wantErr := viewport.Prepare(c)
-			err := v.Replace(c)
+			err := v.Place(c)
 			if (err != nil) != (wantErr != nil) {
 				t.Fatalf("step %d: placed again: %v; prepared: %v", step, err, wantErr)
 			}

@@ -10,8 +10,8 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"github.com/viewspec/viewspec/fixtures"
 	"github.com/viewspec/viewspec/viewport"
+	"github.com/viewspec/viewspec/wire"
 )
 
 // defaultCamera is the embedded default: a phone held upright in a car on the
@@ -116,12 +116,12 @@ func (cf *cameraFlags) readFile(cmd *cobra.Command) (viewport.Camera, error) {
 	if err != nil {
 		return viewport.Camera{}, err
 	}
-	var w fixtures.CameraWire
+	var w wire.Camera
 	dec := json.NewDecoder(bytes.NewReader(data))
 	if err := dec.Decode(&w); err != nil {
 		return viewport.Camera{}, fmt.Errorf("%s: %v", name, describeJSONError(data, err))
 	}
-	c, err := w.Camera("camera")
+	c, err := w.Value("camera")
 	if err != nil {
 		return viewport.Camera{}, fmt.Errorf("%s: %v", name, err)
 	}
@@ -139,7 +139,7 @@ func describeJSONError(data []byte, err error) string {
 	case errors.As(err, &te):
 		off = te.Offset
 	}
-	_, msg := fixtures.DecodeError(err)
+	_, msg := wire.DecodeError(err)
 	if off < 0 {
 		return msg
 	}

@@ -12,7 +12,8 @@ import (
 	"github.com/spf13/cobra"
 	"golang.org/x/term"
 
-	"github.com/viewspec/viewspec/fixtures"
+	"github.com/viewspec/viewspec/check"
+	"github.com/viewspec/viewspec/corpus"
 )
 
 func newFixturesCmd() *cobra.Command {
@@ -44,7 +45,7 @@ same bytes.`,
   viewspec fixtures gen --seed 7 --count 500 --ops project,footprint -o camera.jsonl`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
-			only, err := fixtures.OpsIn(opsList)
+			only, err := corpus.OpsIn(opsList)
 			if err != nil {
 				return &exitError{2, fmt.Errorf("--ops: %v", err)}
 			}
@@ -52,16 +53,16 @@ same bytes.`,
 				return &exitError{2, fmt.Errorf("--count = %d: at least 1", count)}
 			}
 			gen := func(w io.Writer) error {
-				n, err := fixtures.Generate(w, seed, count, only)
+				n, err := corpus.Generate(w, seed, count, only)
 				if err == nil && out != "" {
-					fmt.Fprintf(cmd.ErrOrStderr(), "%d cases written to %s (seed %d, %s)\n", n, out, seed, fixtures.GenVersion)
+					fmt.Fprintf(cmd.ErrOrStderr(), "%d cases written to %s (seed %d, %s)\n", n, out, seed, corpus.GenVersion)
 				}
 				return err
 			}
 			if out == "" || out == "-" {
 				return gen(cmd.OutOrStdout())
 			}
-			return fixtures.WriteFileAtomic(out, gen)
+			return corpus.WriteFileAtomic(out, gen)
 		},
 	}
 	cmd.Flags().Uint64Var(&seed, "seed", 1, "random seed")
@@ -82,7 +83,7 @@ func newValidateCmd() *cobra.Command {
 				return &exitError{2, err}
 			}
 			defer f.Close()
-			problems, n, err := fixtures.ValidateCorpus(f)
+			problems, n, err := check.ValidateCorpus(f)
 			if err != nil {
 				return &exitError{2, fmt.Errorf("%s: %v", args[0], err)}
 			}
@@ -103,13 +104,13 @@ func newValidateCmd() *cobra.Command {
 	}
 }
 
-func readCorpusFile(name string) ([]fixtures.Case, error) {
+func readCorpusFile(name string) ([]corpus.Case, error) {
 	f, err := os.Open(name)
 	if err != nil {
 		return nil, &exitError{2, err}
 	}
 	defer f.Close()
-	cases, err := fixtures.ReadCorpus(name, f)
+	cases, err := corpus.ReadCorpus(name, f)
 	if err != nil {
 		return nil, &exitError{2, err}
 	}
@@ -127,7 +128,7 @@ func newStatsCmd() *cobra.Command {
 			if err != nil {
 				return err
 			}
-			s := fixtures.CorpusStats(cases)
+			s := corpus.CorpusStats(cases)
 			out := cmd.OutOrStdout()
 			if asJSON {
 				return writeJSON(out, s)
@@ -175,8 +176,8 @@ func (rf *reportFlags) register(cmd *cobra.Command) {
 	cmd.Flags().BoolVar(&rf.asJSON, "json", false, "print the report as JSON")
 }
 
-func (rf *reportFlags) load() (fixtures.Profile, error) {
-	p, err := fixtures.LoadProfile(rf.profile, rf.tolerances)
+func (rf *reportFlags) load() (check.Profile, error) {
+	p, err := check.LoadProfile(rf.profile, rf.tolerances)
 	if err != nil {
 		return p, &exitError{2, err}
 	}
@@ -184,9 +185,9 @@ func (rf *reportFlags) load() (fixtures.Profile, error) {
 }
 
 // emit prints the report and writes the JUnit file; a failed check exits 1.
-func (rf *reportFlags) emit(cmd *cobra.Command, r *fixtures.Report) error {
+func (rf *reportFlags) emit(cmd *cobra.Command, r *check.Report) error {
 	if rf.junit != "" {
-		if err := fixtures.WriteFileAtomic(rf.junit, r.WriteJUnit); err != nil {
+		if err := corpus.WriteFileAtomic(rf.junit, r.WriteJUnit); err != nil {
 			return &exitError{2, err}
 		}
 	}
@@ -235,11 +236,11 @@ answers, 2 unusable input.`,
 				return &exitError{2, err}
 			}
 			defer f.Close()
-			answers, bad, err := fixtures.ReadAnswers(args[1], f)
+			answers, bad, err := corpus.ReadAnswers(args[1], f)
 			if err != nil {
 				return &exitError{2, err}
 			}
-			return rf.emit(cmd, fixtures.CheckAnswers(cases, answers, bad, p))
+			return rf.emit(cmd, check.CheckAnswers(cases, answers, bad, p))
 		},
 	}
 	rf.register(cmd)
@@ -265,7 +266,7 @@ missing or out-of-order answer each end in a clear note naming the case.`,
 			if impl == "" {
 				return &exitError{2, fmt.Errorf("--impl 'CMD' is required")}
 			}
-			only, err := fixtures.OpsIn(opsList)
+			only, err := corpus.OpsIn(opsList)
 			if err != nil {
 				return &exitError{2, fmt.Errorf("--ops: %v", err)}
 			}
@@ -277,8 +278,8 @@ missing or out-of-order answer each end in a clear note naming the case.`,
 			if err != nil {
 				return err
 			}
-			ck := fixtures.NewChecker(p)
-			opt := fixtures.RunOptions{Command: impl, Timeout: timeout, Ops: only}
+			ck := check.NewChecker(p)
+			opt := check.RunOptions{Command: impl, Timeout: timeout, Ops: only}
 			if f, ok := cmd.ErrOrStderr().(*os.File); ok && term.IsTerminal(int(f.Fd())) {
 				var bar *progressbar.ProgressBar
 				opt.Progress = func(done, total int) {
@@ -290,7 +291,7 @@ missing or out-of-order answer each end in a clear note naming the case.`,
 					bar.Set(done)
 				}
 			}
-			res, err := fixtures.Run(cases, opt, ck)
+			res, err := check.Run(cases, opt, ck)
 			if err != nil {
 				return &exitError{2, err}
 			}

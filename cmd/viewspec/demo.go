@@ -15,12 +15,17 @@ import (
 	"github.com/paulmach/orb/geojson"
 	"github.com/spf13/cobra"
 
+	"github.com/viewspec/viewspec/check"
+	"github.com/viewspec/viewspec/corpus"
 	"github.com/viewspec/viewspec/demo"
 	"github.com/viewspec/viewspec/fixtures"
 	"github.com/viewspec/viewspec/internal/atomicfile"
-	"github.com/viewspec/viewspec/props"
+	"github.com/viewspec/viewspec/probe"
 	"github.com/viewspec/viewspec/render"
+	"github.com/viewspec/viewspec/spec"
+	"github.com/viewspec/viewspec/timeline"
 	"github.com/viewspec/viewspec/viewport"
+	"github.com/viewspec/viewspec/wire"
 )
 
 func newDemoCmd() *cobra.Command {
@@ -105,8 +110,8 @@ func runDemo(w io.Writer, dir, python string) error {
 	// 2. A corpus, and the reference checked against it through the wire.
 	d.step("making a fixture corpus (seed 1, about 1,500 cases) and checking the reference through `viewspec eval`")
 	corpusFile := filepath.Join(dir, "corpus.jsonl")
-	if err := fixtures.WriteFileAtomic(corpusFile, func(w io.Writer) error {
-		_, err := fixtures.Generate(w, 1, 1500, nil)
+	if err := corpus.WriteFileAtomic(corpusFile, func(w io.Writer) error {
+		_, err := corpus.Generate(w, 1, 1500, nil)
 		return err
 	}); err != nil {
 		return err
@@ -155,8 +160,8 @@ func runDemo(w io.Writer, dir, python string) error {
 		d.summary = append(d.summary, fmt.Sprintf("with the planted mistake %s it fails %d cases — caught", mistake, bad.Counts.Fail))
 
 		d.step("probing the planted mistake and shrinking what it finds")
-		proc := props.NewProcess(impl+" --mistake "+mistake, 5*time.Second)
-		f, err := props.Probe(proc, props.ProbeOptions{Ops: []string{"project"}, Checks: 1000, Seed: 1, ShrinkTime: 10 * time.Second})
+		proc := probe.NewProcess(impl+" --mistake "+mistake, 5*time.Second)
+		f, err := probe.Find(proc, probe.Options{Ops: []string{"project"}, Checks: 1000, Seed: 1, ShrinkTime: 10 * time.Second})
 		proc.Close()
 		if err != nil {
 			return err
@@ -165,7 +170,7 @@ func runDemo(w io.Writer, dir, python string) error {
 			d.summary = append(d.summary, "the prober did not find the planted mistake (unexpected)")
 		} else {
 			printFinding(w, f)
-			line, err := fixtures.CaseLine(f.Case)
+			line, err := corpus.CaseLine(f.Case)
 			if err != nil {
 				return err
 			}
@@ -198,9 +203,9 @@ func runDemo(w io.Writer, dir, python string) error {
 
 // run feeds the corpus to an implementation and writes its text report and
 // JUnit XML.
-func (d *demoRun) run(cases []fixtures.Case, impl, name string) (*fixtures.Report, error) {
-	ck := fixtures.NewChecker(fixtures.Profiles["strict"])
-	res, err := fixtures.Run(cases, fixtures.RunOptions{Command: impl}, ck)
+func (d *demoRun) run(cases []corpus.Case, impl, name string) (*check.Report, error) {
+	ck := check.NewChecker(check.Profiles["strict"])
+	res, err := check.Run(cases, check.RunOptions{Command: impl}, ck)
 	if err != nil {
 		return nil, err
 	}
@@ -261,11 +266,11 @@ func (d *demoRun) drives(town *demo.Scenario) error {
 			f.Properties["shown"] = len(shown)
 			fc.Append(f)
 		}
-		got, err := viewport.Timeline(&td, markers)
+		got, err := timeline.Compute(&td, markers)
 		if err != nil {
 			return err
 		}
-		lines := fixtures.TimelineLines(markers, got)
+		lines := wire.TimelineOf(markers, got)
 		counts := map[string]int{}
 		for _, l := range lines {
 			counts[l.Bucket]++
@@ -306,14 +311,14 @@ func (d *demoRun) drives(town *demo.Scenario) error {
 }
 
 // describeCase says in a few words what a camera case holds.
-func describeCase(c fixtures.Case) string {
-	var req fixtures.Request
+func describeCase(c corpus.Case) string {
+	var req wire.Request
 	if err := json.Unmarshal(c.Request, &req); err != nil || req.Camera == nil || req.Camera.PitchDeg == nil {
 		return "a minimal case"
 	}
 	return fmt.Sprintf("a camera with heading %s°, pitch %s°, zoom %s and %d point(s)",
-		fixtures.FormatNumber(*req.Camera.HeadingDeg), fixtures.FormatNumber(*req.Camera.PitchDeg),
-		fixtures.FormatNumber(*req.Camera.Zoom), len(req.Points)+len(req.Pixels))
+		spec.FormatNumber(*req.Camera.HeadingDeg), spec.FormatNumber(*req.Camera.PitchDeg),
+		spec.FormatNumber(*req.Camera.Zoom), len(req.Points)+len(req.Pixels))
 }
 
 func mustLength(dr demo.Drive) float64 {

@@ -3,7 +3,7 @@ package main
 import (
 	"github.com/spf13/cobra"
 
-	"github.com/viewspec/viewspec/fixtures"
+	"github.com/viewspec/viewspec/reference"
 )
 
 func newEvalCmd() *cobra.Command {
@@ -16,7 +16,7 @@ object naming the line and the field, and the stream goes on. It exits 0 at
 the end of input.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
-			return fixtures.Serve(cmd.InOrStdin(), cmd.OutOrStdout())
+			return reference.Serve(cmd.InOrStdin(), cmd.OutOrStdout())
 		},
 	}
 }

@@ -11,8 +11,9 @@ import (
 	"github.com/paulmach/orb/geojson"
 	"github.com/spf13/cobra"
 
-	"github.com/viewspec/viewspec/fixtures"
+	"github.com/viewspec/viewspec/reference"
 	"github.com/viewspec/viewspec/viewport"
+	"github.com/viewspec/viewspec/wire"
 )
 
 // outputFlags selects how data is printed: a readable table by default.
@@ -64,11 +65,11 @@ func writeJSON(w io.Writer, v any) error {
 
 // footprintJSON is the footprint op's answer beside the camera it answers.
 func footprintJSON(v *viewport.View) any {
-	req := &fixtures.Request{Op: "footprint", Camera: fixtures.WireCamera(v.Camera())}
-	ans, _ := fixtures.Evaluate(req)
+	req := &wire.Request{Op: "footprint", Camera: wire.CameraOf(v.Camera())}
+	ans, _ := reference.Evaluate(req)
 	return struct {
-		Camera    *fixtures.CameraWire `json:"camera"`
-		Footprint any                  `json:"footprint"`
+		Camera    *wire.Camera `json:"camera"`
+		Footprint any          `json:"footprint"`
 	}{req.Camera, ans}
 }
 

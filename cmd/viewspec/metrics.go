@@ -10,9 +10,12 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"github.com/viewspec/viewspec/fixtures"
+	"github.com/viewspec/viewspec/geofile"
+	"github.com/viewspec/viewspec/reference"
 	"github.com/viewspec/viewspec/routes"
+	"github.com/viewspec/viewspec/timeline"
 	"github.com/viewspec/viewspec/viewport"
+	"github.com/viewspec/viewspec/wire"
 )
 
 // routeFlags reads a route file with an optional speed override.
@@ -27,7 +30,7 @@ func (rf *routeFlags) register(cmd *cobra.Command) {
 }
 
 // load reads and prepares the route; input errors exit with code 2.
-func (rf *routeFlags) load(cmd *cobra.Command) (*routes.Route, *fixtures.RouteFile, error) {
+func (rf *routeFlags) load(cmd *cobra.Command) (*routes.Route, *geofile.RouteFile, error) {
 	if rf.file == "" {
 		return nil, nil, &exitError{2, fmt.Errorf("--route FILE is required")}
 	}
@@ -35,7 +38,7 @@ func (rf *routeFlags) load(cmd *cobra.Command) (*routes.Route, *fixtures.RouteFi
 	if err != nil {
 		return nil, nil, &exitError{2, err}
 	}
-	f, err := fixtures.ReadRoute(rf.file, data)
+	f, err := geofile.ReadRoute(rf.file, data)
 	if err != nil {
 		return nil, nil, &exitError{2, err}
 	}
@@ -52,7 +55,7 @@ func (rf *routeFlags) load(cmd *cobra.Command) (*routes.Route, *fixtures.RouteFi
 	return r, f, nil
 }
 
-func readMarkersFile(name string) ([]fixtures.Marker, error) {
+func readMarkersFile(name string) ([]timeline.Marker, error) {
 	if name == "" {
 		return nil, &exitError{2, fmt.Errorf("--markers FILE is required")}
 	}
@@ -60,7 +63,7 @@ func readMarkersFile(name string) ([]fixtures.Marker, error) {
 	if err != nil {
 		return nil, &exitError{2, err}
 	}
-	ms, err := fixtures.ReadMarkers(name, data)
+	ms, err := geofile.ReadMarkers(name, data)
 	if err != nil {
 		return nil, &exitError{2, err}
 	}
@@ -122,12 +125,12 @@ footprint (0 inside).`,
 				}
 				view, fp = &v, v.Footprint()
 			}
-			rows := make([]fixtures.MarkerMetricsWire, len(ms))
-			fixtures.MarkerMetrics(r, user, ms, view, &fp, rows)
+			rows := make([]wire.MarkerMetrics, len(ms))
+			reference.FillMetrics(r, user, ms, view, &fp, rows)
 			out := cmd.OutOrStdout()
 			switch {
 			case asJSON:
-				return writeJSON(out, fixtures.MetricsAnswer{Markers: rows})
+				return writeJSON(out, wire.MetricsAnswer{Markers: rows})
 			case asCSV:
 				return writeMetricsCSV(out, rows, view != nil)
 			}
@@ -160,7 +163,7 @@ func viewDist(raw []byte, prec int) string {
 	return strconv.FormatFloat(v, 'f', prec, 64)
 }
 
-func writeMetricsCSV(w io.Writer, rows []fixtures.MarkerMetricsWire, withView bool) error {
+func writeMetricsCSV(w io.Writer, rows []wire.MarkerMetrics, withView bool) error {
 	cw := csv.NewWriter(w)
 	head := []string{"id", "user_dist_m", "route_dist_m", "along_m", "eta_s", "side", "side_margin_m"}
 	if withView {
@@ -179,7 +182,7 @@ func writeMetricsCSV(w io.Writer, rows []fixtures.MarkerMetricsWire, withView bo
 	return cw.Error()
 }
 
-func printMetrics(w io.Writer, r *routes.Route, user [2]float64, rows []fixtures.MarkerMetricsWire, withView bool) error {
+func printMetrics(w io.Writer, r *routes.Route, user [2]float64, rows []wire.MarkerMetrics, withView bool) error {
 	place := r.Snap(user)
 	fmt.Fprintf(w, "route  %d segments, %s, %.0f s end to end\n", r.NumSegments(), meters(r.LengthM()), r.DurationS())
 	fmt.Fprintf(w, "user   %.6f, %.6f → on the route %s from the start, %s off it\n\n", user[1], user[0], meters(place.AlongM), meters(place.DistM))

@@ -8,8 +8,11 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"github.com/viewspec/viewspec/fixtures"
-	"github.com/viewspec/viewspec/props"
+	"github.com/viewspec/viewspec/check"
+	"github.com/viewspec/viewspec/corpus"
+	"github.com/viewspec/viewspec/probe"
+	"github.com/viewspec/viewspec/reference"
+	"github.com/viewspec/viewspec/spec"
 )
 
 func newProbeCmd() *cobra.Command {
@@ -36,26 +39,26 @@ same seed draws the same cases.`,
 			if impl == "" {
 				return &exitError{2, fmt.Errorf("--impl 'CMD' is required")}
 			}
-			p, err := fixtures.LoadProfile(profile, "")
+			p, err := check.LoadProfile(profile, "")
 			if err != nil {
 				return &exitError{2, err}
 			}
 			var ops []string
 			if opsList != "" {
-				only, err := fixtures.OpsIn(opsList)
+				only, err := corpus.OpsIn(opsList)
 				if err != nil {
 					return &exitError{2, fmt.Errorf("--ops: %v", err)}
 				}
-				for _, op := range fixtures.Ops() {
+				for _, op := range reference.Ops() {
 					if only[op] {
 						ops = append(ops, op)
 					}
 				}
 			}
-			proc := props.NewProcess(impl, timeout)
+			proc := probe.NewProcess(impl, timeout)
 			defer proc.Close()
 			stderr := cmd.ErrOrStderr()
-			f, err := props.Probe(proc, props.ProbeOptions{Ops: ops, Checks: checks, Seed: seed, Profile: p, ShrinkTime: shrink,
+			f, err := probe.Find(proc, probe.Options{Ops: ops, Checks: checks, Seed: seed, Profile: p, ShrinkTime: shrink,
 				Log: func(format string, args ...any) { fmt.Fprintf(stderr, "probe: "+format+"\n", args...) }})
 			if err != nil {
 				return &exitError{2, err}
@@ -66,8 +69,8 @@ same seed draws the same cases.`,
 				return nil
 			}
 			printFinding(w, f)
-			if err := fixtures.WriteFileAtomic(out, func(w io.Writer) error {
-				b, err := fixtures.CaseLine(f.Case)
+			if err := corpus.WriteFileAtomic(out, func(w io.Writer) error {
+				b, err := corpus.CaseLine(f.Case)
 				if err != nil {
 					return err
 				}
@@ -92,7 +95,7 @@ same seed draws the same cases.`,
 }
 
 // printFinding shows a minimal case, both answers and what differs.
-func printFinding(w io.Writer, f *props.Finding) {
+func printFinding(w io.Writer, f *probe.Disagreement) {
 	fmt.Fprintf(w, "DISAGREEMENT in op %s (family %s), found after %d case(s) and shrunk:\n\n", f.Op, f.Family, f.Checks)
 	fmt.Fprintf(w, "request:\n  %s\n", f.Case.Request)
 	fmt.Fprintf(w, "reference answers:\n  %s\n", f.Case.Expect)
@@ -105,7 +108,7 @@ func printFinding(w io.Writer, f *props.Finding) {
 	for _, d := range f.Diffs {
 		line := fmt.Sprintf("  %s: got %s, want %s", d.Path, d.Got, d.Want)
 		if d.Diff > 0 {
-			line += fmt.Sprintf(" (off by %s, %s tolerance %s)", fixtures.FormatNumber(d.Diff), d.Quantity, fixtures.FormatNumber(d.Allowed))
+			line += fmt.Sprintf(" (off by %s, %s tolerance %s)", spec.FormatNumber(d.Diff), d.Quantity, spec.FormatNumber(d.Allowed))
 		} else if d.Quantity != "shape" {
 			line += fmt.Sprintf(" (%s decision)", d.Quantity)
 		}

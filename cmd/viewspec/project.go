@@ -13,8 +13,9 @@ import (
 	"github.com/paulmach/orb/geojson"
 	"github.com/spf13/cobra"
 
-	"github.com/viewspec/viewspec/fixtures"
+	"github.com/viewspec/viewspec/reference"
 	"github.com/viewspec/viewspec/viewport"
+	"github.com/viewspec/viewspec/wire"
 )
 
 func newProjectCmd() *cobra.Command {
@@ -125,24 +126,24 @@ func readPoints(cmd *cobra.Command, args []string, file string) ([]orb.Point, er
 	return pts, sc.Err()
 }
 
-func projectRequest(v *viewport.View, pts []orb.Point) *fixtures.Request {
-	req := &fixtures.Request{Op: "project", Camera: fixtures.WireCamera(v.Camera())}
+func projectRequest(v *viewport.View, pts []orb.Point) *wire.Request {
+	req := &wire.Request{Op: "project", Camera: wire.CameraOf(v.Camera())}
 	for _, p := range pts {
 		lat, lon := p[1], p[0]
-		req.Points = append(req.Points, &fixtures.PointWire{Lat: &lat, Lon: &lon})
+		req.Points = append(req.Points, &wire.Point{Lat: &lat, Lon: &lon})
 	}
 	return req
 }
 
 func projectJSON(v *viewport.View, pts []orb.Point) any {
 	req := projectRequest(v, pts)
-	ans, err := fixtures.Evaluate(req)
+	ans, err := reference.Evaluate(req)
 	if err != nil {
 		return err
 	}
 	return struct {
-		Request *fixtures.Request `json:"request"`
-		Answer  any               `json:"answer"`
+		Request *wire.Request `json:"request"`
+		Answer  any           `json:"answer"`
 	}{req, ans}
 }
 

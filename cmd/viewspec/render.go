@@ -8,9 +8,10 @@ import (
 	"github.com/paulmach/orb"
 	"github.com/spf13/cobra"
 
-	"github.com/viewspec/viewspec/fixtures"
+	"github.com/viewspec/viewspec/corpus"
+	"github.com/viewspec/viewspec/geofile"
 	"github.com/viewspec/viewspec/render"
-	"github.com/viewspec/viewspec/viewport"
+	"github.com/viewspec/viewspec/timeline"
 )
 
 func newRenderCmd() *cobra.Command {
@@ -35,7 +36,7 @@ func writeOutput(cmd *cobra.Command, name string, data []byte) error {
 		_, err := cmd.OutOrStdout().Write(data)
 		return err
 	}
-	return fixtures.WriteFileAtomic(name, func(w io.Writer) error {
+	return corpus.WriteFileAtomic(name, func(w io.Writer) error {
 		_, err := w.Write(data)
 		return err
 	})
@@ -48,7 +49,7 @@ func readRoutePoints(name string) ([]orb.Point, error) {
 	if err != nil {
 		return nil, &exitError{2, err}
 	}
-	f, err := fixtures.ReadRoute(name, data)
+	f, err := geofile.ReadRoute(name, data)
 	if err != nil {
 		return nil, &exitError{2, err}
 	}
@@ -82,7 +83,7 @@ picture fits the footprint unless --span-m fixes the scale.`,
 					return err
 				}
 			}
-			var ms []viewport.Marker
+			var ms []timeline.Marker
 			if markersFile != "" {
 				if ms, err = readMarkersFile(markersFile); err != nil {
 					return err

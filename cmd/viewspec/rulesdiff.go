@@ -9,10 +9,10 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"github.com/viewspec/viewspec/fixtures"
+	"github.com/viewspec/viewspec/corpus"
 	"github.com/viewspec/viewspec/gate"
 	"github.com/viewspec/viewspec/render"
-	"github.com/viewspec/viewspec/viewport"
+	"github.com/viewspec/viewspec/timeline"
 )
 
 func newRulesDiffCmd() *cobra.Command {
@@ -52,7 +52,7 @@ Measures: ` + strings.Join(gate.MeasureNames(), ", ") + `.`,
 			if err != nil {
 				return &exitError{2, err}
 			}
-			var ms []viewport.Marker
+			var ms []timeline.Marker
 			if markersFile != "" {
 				if ms, err = readMarkersFile(markersFile); err != nil {
 					return err
@@ -95,7 +95,7 @@ Measures: ` + strings.Join(gate.MeasureNames(), ", ") + `.`,
 				if err != nil {
 					return &exitError{2, err}
 				}
-				if err := fixtures.WriteFileAtomic(markdown, func(w io.Writer) error {
+				if err := corpus.WriteFileAtomic(markdown, func(w io.Writer) error {
 					return rep.WriteMarkdown(w, baseName, newName, gates, plots)
 				}); err != nil {
 					return &exitError{2, err}
@@ -136,7 +136,7 @@ func writeDiffPlots(markdown string, rep *gate.Report, baseName, newName string)
 	stem := strings.TrimSuffix(filepath.Base(markdown), filepath.Ext(markdown))
 	var plots []gate.Plot
 	write := func(title, file string, svg []byte) error {
-		if err := fixtures.WriteFileAtomic(filepath.Join(dir, file), func(w io.Writer) error {
+		if err := corpus.WriteFileAtomic(filepath.Join(dir, file), func(w io.Writer) error {
 			_, err := w.Write(svg)
 			return err
 		}); err != nil {

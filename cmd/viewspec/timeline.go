@@ -12,8 +12,9 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"github.com/viewspec/viewspec/fixtures"
+	"github.com/viewspec/viewspec/timeline"
 	"github.com/viewspec/viewspec/viewport"
+	"github.com/viewspec/viewspec/wire"
 )
 
 // readDevice reads a device JSON object (SPEC §2) from a file, or returns
@@ -26,11 +27,11 @@ func readDevice(name string) (viewport.Device, error) {
 	if err != nil {
 		return viewport.Device{}, &exitError{2, err}
 	}
-	var w fixtures.DeviceWire
+	var w wire.Device
 	if err := json.NewDecoder(bytes.NewReader(data)).Decode(&w); err != nil {
 		return viewport.Device{}, &exitError{2, fmt.Errorf("%s: %s", name, describeJSONError(data, err))}
 	}
-	d, err := w.Device("device")
+	d, err := w.Value("device")
 	if err != nil {
 		return viewport.Device{}, &exitError{2, fmt.Errorf("%s: %v", name, err)}
 	}
@@ -64,8 +65,8 @@ func (df *driveFlags) register(cmd *cobra.Command) {
 
 // load reads the files and returns the drive and its markers; input errors
 // exit with code 2.
-func (df *driveFlags) load(cmd *cobra.Command) (viewport.Drive, []viewport.Marker, error) {
-	var d viewport.Drive
+func (df *driveFlags) load(cmd *cobra.Command) (timeline.Drive, []timeline.Marker, error) {
+	var d timeline.Drive
 	r, _, err := df.rf.load(cmd)
 	if err != nil {
 		return d, nil, err
@@ -96,7 +97,7 @@ func (df *driveFlags) load(cmd *cobra.Command) (viewport.Drive, []viewport.Marke
 	if len(df.edges) != 2 {
 		return d, nil, &exitError{2, fmt.Errorf("--bucket-edges-s wants 2 values, got %d", len(df.edges))}
 	}
-	d = viewport.NewDrive(r, start, dev, rs)
+	d = timeline.NewDrive(r, start, dev, rs)
 	d.HorizonS, d.TickS, d.Cap = df.horizonS, df.tickS, df.capN
 	d.BucketEdgesS = [2]float64{df.edges[0], df.edges[1]}
 	return d, ms, nil
@@ -124,15 +125,15 @@ early, mid or late (by --bucket-edges-s) or never (SPEC §5).`,
 			if err != nil {
 				return err
 			}
-			got, err := viewport.Timeline(&d, ms)
+			got, err := timeline.Compute(&d, ms)
 			if err != nil {
 				return &exitError{2, err}
 			}
-			lines := fixtures.TimelineLines(ms, got)
+			lines := wire.TimelineOf(ms, got)
 			out := cmd.OutOrStdout()
 			switch {
 			case asJSON:
-				return writeJSON(out, fixtures.TimelineAnswer{Markers: lines})
+				return writeJSON(out, wire.TimelineAnswer{Markers: lines})
 			case asCSV:
 				return writeTimelineCSV(out, lines)
 			}
@@ -146,7 +147,7 @@ early, mid or late (by --bucket-edges-s) or never (SPEC §5).`,
 	return cmd
 }
 
-func writeTimelineCSV(w io.Writer, lines []fixtures.MarkerTimelineWire) error {
+func writeTimelineCSV(w io.Writer, lines []wire.MarkerTimeline) error {
 	cw := csv.NewWriter(w)
 	cw.Write([]string{"id", "first_visible_s", "first_shown_s", "shown_s", "bucket", "bucket_margin_s"})
 	for _, l := range lines {
@@ -156,7 +157,7 @@ func writeTimelineCSV(w io.Writer, lines []fixtures.MarkerTimelineWire) error {
 	return cw.Error()
 }
 
-func printTimeline(w io.Writer, d *viewport.Drive, lines []fixtures.MarkerTimelineWire) error {
+func printTimeline(w io.Writer, d *timeline.Drive, lines []wire.MarkerTimeline) error {
 	fmt.Fprintf(w, "drive  %s of route from %s, %g s at %g s ticks, %d shown at once, buckets at %g and %g s\n\n",
 		meters(d.Route.LengthM()), meters(d.StartAlongM), d.HorizonS, d.TickS, d.Cap, d.BucketEdgesS[0], d.BucketEdgesS[1])
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)

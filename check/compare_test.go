@@ -1,0 +1,158 @@
+package check_test
+
+import (
+	"encoding/json"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/viewspec/viewspec/check"
+	"github.com/viewspec/viewspec/corpus"
+	"github.com/viewspec/viewspec/spec"
+)
+
+func projectCase(margin float64) *corpus.Case {
+	return &corpus.Case{
+		ID: "c", Op: "project", Family: "unit",
+		Expect:  json.RawMessage(`{"id":"c","screen":[{"x":100,"y":200,"depth":500,"in_view":true},null]}`),
+		Margins: json.RawMessage(`{"margin_px":[` + spec.FormatNumber(margin) + `,null]}`),
+	}
+}
+
+// Tolerances: a difference passes when within abs + rel·|want|.
+func TestToleranceAllowed(t *testing.T) {
+	tol := check.Tolerance{Abs: 0.5, Rel: 1e-3}
+	if got := tol.Allowed(-1000); got != 1.5 {
+		t.Fatalf("Allowed(-1000) = %v, want 1.5", got)
+	}
+}
+
+// Continuous quantities pass inside their tolerance and fail outside it,
+// under each profile; pixels are compared by their distance.
+func TestComparePixels(t *testing.T) {
+	strict, field := check.Profiles["strict"], check.Profiles["field"]
+	c := projectCase(40)
+	cases := []struct {
+		got       string
+		p         check.Profile
+		want      check.Status
+		wantQuant string
+	}{
+		{`{"id":"c","screen":[{"x":100,"y":200,"depth":500,"in_view":true},null]}`, strict, check.Pass, ""},
+		// 0.3 and 0.39 px off is 0.492 px away, inside the field's 0.5 px.
+		{`{"id":"c","screen":[{"x":100.3,"y":200.39,"depth":500,"in_view":true},null]}`, field, check.Pass, ""},
+		{`{"id":"c","screen":[{"x":100.3,"y":200.41,"depth":500,"in_view":true},null]}`, field, check.Fail, "pixel_px"},
+		{`{"id":"c","screen":[{"x":100.000001,"y":200,"depth":500,"in_view":true},null]}`, strict, check.Pass, ""},
+		{`{"id":"c","screen":[{"x":100.00001,"y":200,"depth":500,"in_view":true},null]}`, strict, check.Fail, "pixel_px"},
+		{`{"id":"c","screen":[{"x":100,"y":200,"depth":501,"in_view":true},null]}`, field, check.Fail, "depth_px"},
+		{`{"id":"c","screen":[{"x":100,"y":200,"depth":500,"in_view":true}]}`, field, check.Fail, "shape"},
+		{`{"id":"c","error":{"code":"invalid_value","message":"no"}}`, field, check.Fail, "shape"},
+		{`{"id":"c","screen":"nope"}`, field, check.Fail, "shape"},
+	}
+	for i, tc := range cases {
+		st, diffs := check.Compare(c, json.RawMessage(tc.got), &tc.p)
+		if st != tc.want {
+			t.Errorf("case %d: status %v, want %v (%+v)", i, st, tc.want, diffs)
+			continue
+		}
+		if tc.wantQuant != "" && (len(diffs) == 0 || diffs[0].Quantity != tc.wantQuant) {
+			t.Errorf("case %d: diffs %+v, want quantity %s", i, diffs, tc.wantQuant)
+		}
+	}
+}
+
+// A discrete disagreement is borderline when the reference's margin is
+// within the tolerance, a failure otherwise (SPEC §7).
+func TestCompareDiscreteMargins(t *testing.T) {
+	field := check.Profiles["field"]
+	flipped := json.RawMessage(`{"id":"c","screen":[{"x":100,"y":200,"depth":500,"in_view":false},null]}`)
+	if st, _ := check.Compare(projectCase(0.3), flipped, &field); st != check.Borderline {
+		t.Errorf("in_view flipped with margin 0.3 px under a 0.5 px tolerance: %v, want borderline", st)
+	}
+	if st, _ := check.Compare(projectCase(0.6), flipped, &field); st != check.Fail {
+		t.Errorf("in_view flipped with margin 0.6 px under a 0.5 px tolerance: %v, want fail", st)
+	}
+	// A pixel where the reference says the point is behind the camera is a
+	// failure: no margin to hide behind.
+	both := json.RawMessage(`{"id":"c","screen":[{"x":100,"y":200,"depth":500,"in_view":true},{"x":1,"y":1,"depth":1000,"in_view":false}]}`)
+	if st, _ := check.Compare(projectCase(40), both, &field); st != check.Fail {
+		t.Errorf("a pixel for a point behind the camera: %v, want fail", st)
+	}
+}
+
+// Positions are compared by their ground distance: 1e-5° of latitude is
+// 1.11 m on the mean sphere (R = 6 371 008.8 m; 2πR/360·1e-5 = 1.1119 m).
+func TestCompareGroundDistance(t *testing.T) {
+	c := &corpus.Case{ID: "u", Op: "unproject", Expect: json.RawMessage(`{"id":"u","points":[{"lat":45,"lon":7}]}`), Margins: json.RawMessage(`{}`)}
+	field := check.Profiles["field"]
+	_, diffs := check.Compare(c, json.RawMessage(`{"id":"u","points":[{"lat":45.00001,"lon":7}]}`), &field)
+	if len(diffs) != 1 || math.Abs(diffs[0].Diff-1.1119) > 1e-3 || diffs[0].Quantity != "ground_m" {
+		t.Fatalf("diffs %+v, want one ground_m diff of 1.112 m", diffs)
+	}
+	// Across the antimeridian the short way counts: 179.999999 and
+	// -179.999999 are 0.22 m apart on the equator.
+	c.Expect = json.RawMessage(`{"id":"u","points":[{"lat":0,"lon":179.999999}]}`)
+	if st, _ := check.Compare(c, json.RawMessage(`{"id":"u","points":[{"lat":0,"lon":-179.999999}]}`), &field); st != check.Pass {
+		t.Fatalf("0.22 m across the antimeridian under a 0.5 m tolerance: %v, want pass", st)
+	}
+}
+
+// Errors must be errors with the same code; messages are free.
+func TestCompareErrors(t *testing.T) {
+	c := &corpus.Case{ID: "e", Op: "footprint", Expect: json.RawMessage(`{"id":"e","error":{"code":"invalid_value","message":"line 1: camera.pitch_deg = 95: …"}}`), Margins: json.RawMessage(`{}`)}
+	strict := check.Profiles["strict"]
+	if st, _ := check.Compare(c, json.RawMessage(`{"id":"e","error":{"code":"invalid_value","message":"pitch too high"}}`), &strict); st != check.Pass {
+		t.Errorf("same code, other message: %v, want pass", st)
+	}
+	if st, _ := check.Compare(c, json.RawMessage(`{"id":"e","error":{"code":"missing_field","message":"x"}}`), &strict); st != check.Fail {
+		t.Errorf("other code: %v, want fail", st)
+	}
+}
+
+// A tolerance file overrides a profile field by field.
+func TestLoadProfileOverride(t *testing.T) {
+	dir := t.TempDir()
+	file := filepath.Join(dir, "tol.yaml")
+	os.WriteFile(file, []byte("base: field\npixel_px: {abs: 2}\ntime_s: {rel: 0.01}\n"), 0o644)
+	p, err := check.LoadProfile("strict", file)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if p.PixelPx.Abs != 2 || p.PixelPx.Rel != 0 || p.TimeS.Abs != 0.25 || p.TimeS.Rel != 0.01 || p.GroundM.Abs != 0.5 {
+		t.Fatalf("profile %+v", p)
+	}
+	os.WriteFile(file, []byte("pixel_pix: {abs: 2}\n"), 0o644)
+	if _, err := check.LoadProfile("strict", file); err == nil || !strings.Contains(err.Error(), "pixel_pix") {
+		t.Fatalf("unknown quantity: %v", err)
+	}
+	os.WriteFile(file, []byte("pixel_px: {abs: -1}\n"), 0o644)
+	if _, err := check.LoadProfile("strict", file); err == nil || !strings.Contains(err.Error(), "pixel_px") {
+		t.Fatalf("negative tolerance: %v", err)
+	}
+}
+
+// FuzzCompare: any answer line compares to a status, never a panic.
+func FuzzCompare(f *testing.F) {
+	f.Add(`{"id":"c","screen":[{"x":100,"y":200,"depth":500,"in_view":true},null]}`)
+	f.Add(`{"id":"c","screen":[null,{"x":"1"}]}`)
+	f.Add(`{"id":"c","error":{"code":5}}`)
+	f.Add(`{"id":"c","points":[{"lat":1,"lon":2}],"vertices":[],"area_m2":true}`)
+	f.Add(`[]`)
+	cases := []*corpus.Case{
+		projectCase(1),
+		{ID: "u", Op: "unproject", Expect: json.RawMessage(`{"id":"u","points":[{"lat":45,"lon":7},null]}`), Margins: json.RawMessage(`{"horizon_px":[3,null]}`)},
+		{ID: "f", Op: "footprint", Expect: json.RawMessage(`{"id":"f","vertices":[{"lat":0,"lon":0},{"lat":0,"lon":1},{"lat":1,"lon":1},{"lat":1,"lon":0}],"area_m2":5,"visible_radius_m":2}`), Margins: json.RawMessage(`{"empty_px":4}`)},
+		{ID: "z", Op: "zoom", Expect: json.RawMessage(`{"id":"z","zoom":[16],"pitch_deg":[0]}`), Margins: json.RawMessage(`{}`)},
+	}
+	strict := check.Profiles["strict"]
+	f.Fuzz(func(t *testing.T, got string) {
+		for _, c := range cases {
+			st, _ := check.Compare(c, json.RawMessage(got), &strict)
+			if st != check.Pass && st != check.Borderline && st != check.Fail {
+				t.Fatalf("status %v", st)
+			}
+		}
+	})
+}

@@ -1,0 +1,164 @@
+package corpus
+
+import (
+	"bufio"
+	"bytes"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"slices"
+	"strings"
+
+	"github.com/viewspec/viewspec/reference"
+	"github.com/viewspec/viewspec/spec"
+	"github.com/viewspec/viewspec/wire"
+
+	jsonv2 "github.com/go-json-experiment/json"
+
+	"github.com/viewspec/viewspec/internal/atomicfile"
+)
+
+// Case is one line of a fixture corpus: a request, the reference's answer
+// to it without its decision margins (expect), and the margins apart, so
+// that a checker can tell a real disagreement from a borderline one.
+type Case struct {
+	ID      string          `json:"id"`
+	Family  string          `json:"family"`
+	Op      string          `json:"op"`
+	Request json.RawMessage `json:"request"`
+	Expect  json.RawMessage `json:"expect"`
+	Margins json.RawMessage `json:"margins"`
+}
+
+// CorpusError is an unusable corpus or answer file: the file, the line and
+// what was wrong.
+type CorpusError struct {
+	File string
+	Line int
+	Msg  string
+}
+
+func (e *CorpusError) Error() string {
+	if e.Line > 0 {
+		return fmt.Sprintf("%s:%d: %s", e.File, e.Line, e.Msg)
+	}
+	return e.File + ": " + e.Msg
+}
+
+// MaxLineBytes is the longest line the corpus and answer readers take.
+const MaxLineBytes = wire.MaxLineBytes
+
+// ReadCorpus reads a corpus (JSON Lines of Case) from r, checking each line
+// has an id, an op and a request whose id is the case's, and that ids are
+// unique. Blank lines are skipped.
+func ReadCorpus(name string, r io.Reader) ([]Case, error) {
+	sc := bufio.NewScanner(r)
+	sc.Buffer(make([]byte, 64<<10), MaxLineBytes)
+	var cases []Case
+	seen := map[string]int{}
+	for line := 1; sc.Scan(); line++ {
+		b := bytes.TrimSpace(sc.Bytes())
+		if len(b) == 0 {
+			continue
+		}
+		var c Case
+		if err := json.Unmarshal(b, &c); err != nil {
+			_, msg := wire.DecodeError(err)
+			return nil, &CorpusError{name, line, "not a corpus line: " + msg}
+		}
+		switch {
+		case c.ID == "":
+			return nil, &CorpusError{name, line, "id: missing"}
+		case c.Op == "":
+			return nil, &CorpusError{name, line, "op: missing"}
+		case len(c.Request) == 0 || c.Request[0] != '{':
+			return nil, &CorpusError{name, line, "request: missing or not an object"}
+		case len(c.Expect) == 0 || c.Expect[0] != '{':
+			return nil, &CorpusError{name, line, "expect: missing or not an object"}
+		}
+		if j, dup := seen[c.ID]; dup {
+			return nil, &CorpusError{name, line, fmt.Sprintf("id %q repeats line %d", c.ID, j)}
+		}
+		seen[c.ID] = line
+		cases = append(cases, c)
+	}
+	if err := sc.Err(); err != nil {
+		return nil, &CorpusError{name, 0, err.Error()}
+	}
+	return cases, nil
+}
+
+// Answer is one answer line as read from an implementation: its id and the
+// raw object.
+type Answer struct {
+	ID   string
+	Raw  json.RawMessage
+	Line int
+}
+
+// ReadAnswers reads answer lines (JSON objects with a string id) from r.
+// Lines that are not JSON objects, or lack a string id, are returned in bad
+// with their line numbers, for the checker to report against no case.
+func ReadAnswers(name string, r io.Reader) (answers []Answer, bad []string, err error) {
+	sc := bufio.NewScanner(r)
+	sc.Buffer(make([]byte, 64<<10), MaxLineBytes)
+	for line := 1; sc.Scan(); line++ {
+		b := bytes.TrimSpace(sc.Bytes())
+		if len(b) == 0 {
+			continue
+		}
+		id, ok := AnswerID(b)
+		if !ok {
+			bad = append(bad, fmt.Sprintf("%s:%d: not a JSON object with a string id: %s", name, line, spec.Excerpt(b, 80)))
+			continue
+		}
+		answers = append(answers, Answer{ID: id, Raw: append(json.RawMessage(nil), b...), Line: line})
+	}
+	if err := sc.Err(); err != nil {
+		return nil, nil, &CorpusError{name, 0, err.Error()}
+	}
+	return answers, bad, nil
+}
+
+// AnswerID returns the string id of a JSON object answer. Answers usually
+// begin with their id (`{"id":"…"`, no escapes), which is read without
+// decoding (the comparison that follows parses the whole line and reports
+// one that is not JSON); any other line is decoded in full.
+func AnswerID(b []byte) (string, bool) {
+	if rest, ok := bytes.CutPrefix(b, []byte(`{"id":"`)); ok {
+		if end := bytes.IndexByte(rest, '"'); end >= 0 && bytes.IndexByte(rest[:end], '\\') < 0 {
+			return string(rest[:end]), true
+		}
+	}
+	var head struct {
+		ID *string `json:"id"`
+	}
+	if len(b) == 0 || b[0] != '{' || jsonv2.Unmarshal(b, &head, jsonv2.DefaultOptionsV2()) != nil || head.ID == nil {
+		return "", false
+	}
+	return *head.ID, true
+}
+
+// WriteFileAtomic writes name through a temporary file in the same folder
+// and a rename, so that readers never see a half-written file.
+func WriteFileAtomic(name string, write func(w io.Writer) error) error {
+	return atomicfile.Write(name, write)
+}
+
+// OpsIn returns the ops named in a comma-separated list, checked against
+// the reference's ops.
+func OpsIn(list string) (map[string]bool, error) {
+	if strings.TrimSpace(list) == "" {
+		return nil, nil
+	}
+	want := map[string]bool{}
+	for _, op := range strings.Split(list, ",") {
+		op = strings.TrimSpace(op)
+		if !slices.Contains(reference.Ops(), op) || op == "hello" {
+			return nil, errors.New("unknown op " + fmt.Sprintf("%q", op) + " (known: " + strings.Join(reference.Ops(), ", ") + ")")
+		}
+		want[op] = true
+	}
+	return want, nil
+}

@@ -1,0 +1,88 @@
+package timeline
+
+import "github.com/viewspec/viewspec/viewport"
+
+// naiveSeer finds the markers in view by preparing each view's camera in
+// full and projecting every marker from latitude and longitude.
+type naiveSeer struct {
+	ms      []Marker
+	in      []bool
+	visible []int32
+	entered []int32
+}
+
+func (s *naiveSeer) See(v *viewport.View) {
+	full, err := viewport.Prepare(v.Camera())
+	if err != nil {
+		panic(err) // Place accepted the same camera
+	}
+	s.visible, s.entered = s.visible[:0], s.entered[:0]
+	for i, m := range s.ms {
+		in := full.Project(m.Point).InView()
+		if in {
+			s.visible = append(s.visible, int32(i))
+			if !s.in[i] {
+				s.entered = append(s.entered, int32(i))
+			}
+		}
+		s.in[i] = in
+	}
+}
+func (s *naiveSeer) In(i int) bool    { return s.in[i] }
+func (s *naiveSeer) Visible() []int32 { return s.visible }
+func (s *naiveSeer) Entered() []int32 { return s.entered }
+
+// ComputeNaive is Compute with the naive visibility search: a camera
+// prepared in full and every marker projected at every tick. It is the
+// test oracle of the tracker and the baseline of its benchmark.
+func ComputeNaive(d *Drive, ms []Marker) ([]Result, error) {
+	r, err := newRun(d, ms)
+	if err != nil {
+		return nil, err
+	}
+	r.seen = &naiveSeer{ms: ms, in: make([]bool, len(ms))}
+	return r.run()
+}
+
+// checkedSeer is the tracker, checked at every tick against
+// ProjectMercator: the first tick where a marker's answer or its count in
+// the visible list is wrong, and the marker.
+type checkedSeer struct {
+	*viewport.Tracker
+	merc           []viewport.Mercator
+	tick           int
+	badTick, badAt int
+	count          []int
+}
+
+func (s *checkedSeer) See(v *viewport.View) {
+	s.Tracker.See(v)
+	clear(s.count)
+	for _, i := range s.Visible() {
+		s.count[i]++
+	}
+	for i, m := range s.merc {
+		want := 0
+		if v.ProjectMercator(m).InView() {
+			want = 1
+		}
+		if (s.count[i] != want || s.In(i) != (want == 1)) && s.badTick < 0 {
+			s.badTick, s.badAt = s.tick, i
+		}
+	}
+	s.tick++
+}
+
+// ComputeChecked is Compute checking, at every tick, that the tracker
+// finds exactly the markers ProjectMercator puts in view, each once. It
+// returns the first tick where it does not and the marker, or −1.
+func ComputeChecked(d *Drive, ms []Marker) (out []Result, badTick, badMarker int, err error) {
+	r, err := newRun(d, ms)
+	if err != nil {
+		return nil, -1, -1, err
+	}
+	s := &checkedSeer{Tracker: viewport.NewTracker(r.merc), merc: r.merc, badTick: -1, badAt: -1, count: make([]int, len(ms))}
+	r.seen = s
+	out, err = r.run()
+	return out, s.badTick, s.badAt, err
+}

@@ -1,0 +1,384 @@
+package timeline
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+
+	"github.com/paulmach/orb"
+
+	"github.com/viewspec/viewspec/routes"
+	"github.com/viewspec/viewspec/rules"
+	"github.com/viewspec/viewspec/spec"
+	"github.com/viewspec/viewspec/viewport"
+)
+
+// Marker is a place that may be shown on the map: an id (ties between equal
+// priorities go to the smaller id, byte by byte), a position ([lon, lat]
+// degrees) and a priority (higher first).
+type Marker struct {
+	ID       string
+	Point    orb.Point
+	Priority float64
+}
+
+// Drive is the input of the drive timeline (SPEC §5) apart from its markers:
+// a route with speeds, where on it the drive starts, the device, the zoom
+// rules, and the timeline's horizon, tick, on-screen cap and bucket edges.
+type Drive struct {
+	Route        *routes.Route
+	StartAlongM  float64
+	Device       viewport.Device
+	Rules        *rules.Set
+	HorizonS     float64    // seconds, > 0; default 120
+	TickS        float64    // seconds, > 0, dividing HorizonS; default 0.25
+	Cap          int        // markers shown at once, ≥ 1; default 4
+	BucketEdgesS [2]float64 // e1 < e2 ≤ HorizonS, seconds; default 5, 35
+
+	// OnTick, when set, is called at every tick with the tick's index, its
+	// view and the indices of the markers shown (valid during the call
+	// only), for pictures and per-tick output.
+	OnTick func(tick int, v *viewport.View, shown []int)
+	// OnBand, when set, is called at every tick with the rule set's speed
+	// band at that tick (an index into Rules.Bands), for reports of how
+	// often the band changes.
+	OnBand func(tick, band int)
+}
+
+// NewDrive returns a drive on r from startAlongM with the defaults of SPEC
+// §5: a 120 s horizon, 0.25 s ticks, 4 markers at once, buckets at 5 and
+// 35 s.
+func NewDrive(r *routes.Route, startAlongM float64, d viewport.Device, rs *rules.Set) Drive {
+	return Drive{Route: r, StartAlongM: startAlongM, Device: d, Rules: rs,
+		HorizonS: 120, TickS: 0.25, Cap: 4, BucketEdgesS: [2]float64{5, 35}}
+}
+
+// Ticks returns the number of ticks after t = 0: HorizonS/TickS.
+func (d *Drive) Ticks() int { return int(math.Round(d.HorizonS / d.TickS)) }
+
+// Validate reports the first invalid field of d as a *spec.FieldError (field
+// names as on the wire), or an error from the rule set.
+func (d *Drive) Validate() error {
+	switch {
+	case d.Route == nil:
+		return spec.Absent("route")
+	case d.Rules == nil:
+		return spec.Absent("rules")
+	case !(d.HorizonS > 0) || math.IsInf(d.HorizonS, 0):
+		return spec.Out("horizon_s", d.HorizonS, "horizon must be finite and positive")
+	case !(d.TickS > 0) || math.IsInf(d.TickS, 0):
+		return spec.Out("tick_s", d.TickS, "tick must be finite and positive")
+	}
+	if n := d.HorizonS / d.TickS; math.Abs(n-math.Round(n)) > 1e-9 || n > 1e7 {
+		return spec.Out("tick_s", d.TickS,
+			"tick must divide the horizon "+spec.FormatNumber(d.HorizonS)+" s within 1e-9 (and give at most 1e7 ticks)")
+	}
+	if d.Cap < 1 {
+		return spec.Out("cap", float64(d.Cap), "cap must be at least 1")
+	}
+	e1, e2 := d.BucketEdgesS[0], d.BucketEdgesS[1]
+	switch {
+	case !(e1 >= 0) || math.IsInf(e1, 0):
+		return spec.Out("bucket_edges_s[0]", e1, "bucket edge must be finite and non-negative")
+	case !(e2 > e1) || math.IsInf(e2, 0):
+		return spec.Out("bucket_edges_s[1]", e2, "bucket edges must increase")
+	case e2 > d.HorizonS:
+		return spec.Out("bucket_edges_s[1]", e2, "bucket edge beyond the horizon "+spec.FormatNumber(d.HorizonS)+" s")
+	case !(d.StartAlongM >= 0 && d.StartAlongM <= d.Route.LengthM()):
+		return spec.Out("start_along_m", d.StartAlongM,
+			"start must be on the route, within [0, "+spec.FormatNumber(d.Route.LengthM())+"] m")
+	}
+	if err := d.Rules.Validate(); err != nil {
+		return err
+	}
+	c := viewport.Camera{LatDeg: 0, LonDeg: 0, Zoom: d.Rules.MinZoom, Device: d.Device}
+	return c.Validate()
+}
+
+// Bucket says when a marker was first shown: within the first edge
+// (early), between the edges (mid), from the second edge to the horizon
+// (late), or never.
+type Bucket int8
+
+const (
+	Never Bucket = iota
+	Early
+	Mid
+	Late
+)
+
+// String returns the wire name of b.
+func (b Bucket) String() string {
+	switch b {
+	case Early:
+		return "early"
+	case Mid:
+		return "mid"
+	case Late:
+		return "late"
+	}
+	return "never"
+}
+
+// Result is what the drive timeline says of one marker.
+type Result struct {
+	// Visible and FirstVisibleS: whether and when (seconds) it was first in
+	// view.
+	Visible       bool
+	FirstVisibleS float64
+	// Shown and FirstShownS: whether and when it was first given a slot.
+	Shown       bool
+	FirstShownS float64
+	// ShownS is the number of ticks it was shown × the tick, seconds.
+	ShownS float64
+	Bucket Bucket
+	// BucketMarginS is the decision margin of the bucket: seconds from the
+	// first-shown time to the nearest bucket edge or the horizon (0 when
+	// it lies on one). Meaningless for Never.
+	BucketMarginS float64
+	// FirstShownMarginPx is how close the first showing came to going the
+	// other way in pixels: the smaller |in-view margin| of the marker at
+	// that tick and at the tick before (that tick alone at t = 0, or when
+	// the marker had no pixel the tick before). Under 0.5 px the first-shown
+	// tick may differ between implementations that agree within half a
+	// pixel.
+	FirstShownMarginPx float64
+}
+
+// Compute runs the drive of SPEC §5 and returns, for each marker in the
+// order given, when it was first visible and first shown, how long it was
+// shown and its bucket. Motion is exact in time; the camera at tick k
+// follows the route position at t = k·tick, the heading turned toward the
+// current segment's bearing by at most max_turn_rate·tick, and the zoom and
+// pitch of the rules fed by the current speed and the distance to the next
+// turn. Memory grows with markers + ticks, not their product.
+func Compute(d *Drive, ms []Marker) ([]Result, error) {
+	r, err := newRun(d, ms)
+	if err != nil {
+		return nil, err
+	}
+	return r.run()
+}
+
+// newRun validates d and ms and returns the run of the drive.
+func newRun(d *Drive, ms []Marker) (*driveRun, error) {
+	if err := d.Validate(); err != nil {
+		return nil, err
+	}
+	merc, err := markerPoints(ms)
+	if err != nil {
+		return nil, err
+	}
+	return newDriveRun(d, ms, merc), nil
+}
+
+// markerPoints validates ms and returns their Mercator points.
+func markerPoints(ms []Marker) ([]viewport.Mercator, error) {
+	merc := make([]viewport.Mercator, len(ms))
+	for i, m := range ms {
+		if err := spec.CheckLatLon(spec.Index("markers", i), m.Point[1], m.Point[0]); err != nil {
+			return nil, err
+		}
+		if math.IsNaN(m.Priority) || math.IsInf(m.Priority, 0) {
+			return nil, spec.Out(spec.Index("markers", i)+".priority", m.Priority, "priority must be finite")
+		}
+		merc[i] = viewport.ToMercator(m.Point)
+	}
+	return merc, CheckIDs(ms, "markers")
+}
+
+// CheckIDs returns nil when the markers' ids are unique, or the error
+// naming the second of the first two alike (path[i].id).
+func CheckIDs(ms []Marker, path string) error {
+	seen := make(map[string]int, len(ms))
+	for i, m := range ms {
+		if j, dup := seen[m.ID]; dup {
+			return &spec.FieldError{Field: spec.Index(path, i) + ".id", Value: strconv.Quote(m.ID),
+				Reason: "duplicate id (first at " + spec.Index(path, j) + ")"}
+		}
+		seen[m.ID] = i
+	}
+	return nil
+}
+
+// driveRun is the state of one timeline run.
+type driveRun struct {
+	d     *Drive
+	ms    []Marker
+	merc  []viewport.Mercator
+	turns []float64
+
+	out   []Result
+	t     float64        // the tick's time, seconds
+	prev  *viewport.View // the view at the tick before, for first-shown margins
+	shown []int          // indices of the shown markers
+
+	// seen keeps which markers are in view from tick to tick.
+	seen seer
+}
+
+// seer is what the run asks of its in-view tracking: a viewport.Tracker,
+// or a test's oracle.
+type seer interface {
+	See(v *viewport.View)
+	In(i int) bool
+	Visible() []int32
+	Entered() []int32
+}
+
+func newDriveRun(d *Drive, ms []Marker, merc []viewport.Mercator) *driveRun {
+	return &driveRun{d: d, ms: ms, merc: merc,
+		turns: d.Route.Turns(d.Rules.Turn.MinAngleDeg),
+		out:   make([]Result, len(merc)),
+		shown: make([]int, 0, d.Cap),
+		seen:  viewport.NewTracker(merc),
+	}
+}
+
+func (r *driveRun) run() ([]Result, error) {
+	d := r.d
+	rt := d.Route
+	n := d.Ticks()
+	lengthM := rt.LengthM()
+	var st rules.State
+	var heading float64
+	// Two views, placed at alternate ticks, so that the one before stays
+	// at hand without a copy.
+	var views [2]viewport.View
+	cam := viewport.Camera{Device: d.Device}
+	walk := rt.Walk(d.StartAlongM)
+	for k := 0; k <= n; k++ {
+		t := float64(k) * d.TickS
+		along := walk.AlongAfterS(t)
+		seg := rt.Segment(walk.SegmentAt(along)) // the current segment, found once
+		speed := seg.SpeedMps
+		if along >= lengthM {
+			speed = 0 // stopped at the route's end
+		}
+		turnDist, hasTurn := walk.NextTurnDistM(r.turns, along)
+		target := seg.HeadingDeg
+		if k == 0 {
+			var err error
+			if st, err = d.Rules.Start(speed, turnDist, hasTurn); err != nil {
+				return nil, err
+			}
+			heading = target
+		} else {
+			if err := st.Step(d.TickS, speed, turnDist, hasTurn); err != nil {
+				return nil, err
+			}
+			heading = rules.TurnHeadingDeg(heading, target, d.Rules.MaxTurnRateDegPerS*d.TickS)
+		}
+		pos := walk.PointAt(along)
+		cam.LatDeg, cam.LonDeg = pos[1], pos[0]
+		cam.HeadingDeg, cam.PitchDeg, cam.Zoom = heading, st.PitchDeg(), st.Zoom()
+		v := &views[k&1]
+		if err := v.Place(cam); err != nil {
+			return nil, fmt.Errorf("at t = %s s: %w", spec.FormatNumber(t), err)
+		}
+		r.tick(k, t, v)
+		if d.OnTick != nil {
+			d.OnTick(k, v, r.shown)
+		}
+		if d.OnBand != nil {
+			d.OnBand(k, st.Band())
+		}
+		r.prev = v
+	}
+	r.finish()
+	return r.out, nil
+}
+
+// tick finds who is in view at tick k and gives out the slots.
+func (r *driveRun) tick(k int, t float64, v *viewport.View) {
+	r.t = t
+	r.seen.See(v)
+	for _, i := range r.seen.Entered() {
+		if o := &r.out[i]; !o.Visible {
+			o.Visible, o.FirstVisibleS = true, t
+		}
+	}
+	visible := r.seen.Visible()
+	// Shown markers keep their slot while visible.
+	kept := r.shown[:0]
+	for _, i := range r.shown {
+		if r.seen.In(i) {
+			kept = append(kept, i)
+		}
+	}
+	r.shown = kept
+	// Free slots go to visible, not-shown markers by rank (see ahead); the
+	// shown are visible, so there is one while more are visible.
+	for len(r.shown) < r.d.Cap && len(visible) > len(r.shown) {
+		best := -1
+		for _, i32 := range visible {
+			i := int(i32)
+			if r.isShown(i) {
+				continue
+			}
+			if best < 0 || r.ahead(i, best) {
+				best = i
+			}
+		}
+		if best < 0 {
+			break
+		}
+		r.shown = append(r.shown, best)
+		o := &r.out[best]
+		if !o.Shown {
+			o.Shown, o.FirstShownS = true, t
+			// Its own margin now, and at the tick before (where it has a
+			// pixel there).
+			o.FirstShownMarginPx = math.Abs(v.ProjectMercator(r.merc[best]).MarginPx)
+			if k > 0 {
+				if sp := r.prev.ProjectMercator(r.merc[best]); sp.HasPixel() {
+					o.FirstShownMarginPx = min(o.FirstShownMarginPx, math.Abs(sp.MarginPx))
+				}
+			}
+		}
+	}
+	for _, i := range r.shown {
+		r.out[i].ShownS++ // ticks for now; seconds in finish
+	}
+}
+
+// ahead reports whether marker i ranks before marker j for a free slot:
+// higher priority first, then the smaller id byte by byte (ids are
+// unique, so this orders all markers).
+func (r *driveRun) ahead(i, j int) bool {
+	a, b := &r.ms[i], &r.ms[j]
+	return a.Priority > b.Priority || (a.Priority == b.Priority && a.ID < b.ID)
+}
+
+func (r *driveRun) isShown(i int) bool {
+	for _, j := range r.shown {
+		if j == i {
+			return true
+		}
+	}
+	return false
+}
+
+// finish turns tick counts into seconds and assigns buckets.
+func (r *driveRun) finish() {
+	d := r.d
+	e1, e2 := d.BucketEdgesS[0], d.BucketEdgesS[1]
+	for i := range r.out {
+		o := &r.out[i]
+		o.ShownS *= d.TickS
+		if !o.Shown {
+			o.Bucket = Never
+			continue
+		}
+		t := o.FirstShownS
+		switch {
+		case t < e1:
+			o.Bucket = Early
+		case t < e2:
+			o.Bucket = Mid
+		default:
+			o.Bucket = Late
+		}
+		o.BucketMarginS = min(math.Abs(t-e1), math.Abs(t-e2), d.HorizonS-t)
+	}
+}

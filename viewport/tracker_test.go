@@ -1,0 +1,102 @@
+package viewport_test
+
+import (
+	"math"
+	"testing"
+
+	"github.com/paulmach/orb"
+	"pgregory.net/rapid"
+
+	"github.com/viewspec/viewspec/props"
+	"github.com/viewspec/viewspec/viewport"
+)
+
+// A tracker follows a view that moves, turns, zooms and tilts a little at
+// a time, and must give at every step exactly the answers of
+// ProjectMercator, each in-view point once in its list.
+func TestTrackerExact(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		c := props.Camera().Draw(t, "camera")
+		if _, err := viewport.Prepare(c); err != nil {
+			t.Skip(err.Error())
+		}
+		start := viewport.ToMercator(c.User())
+		n := rapid.IntRange(1, 300).Draw(t, "points")
+		spanM := props.LogUniform(10, 1e6).Draw(t, "span_m")
+		pts := make([]viewport.Mercator, n)
+		for i := range pts {
+			pts[i] = viewport.Mercator{X: start.X + rapid.Float64Range(-1, 1).Draw(t, "dx")*spanM,
+				Y: start.Y + rapid.Float64Range(-1, 1).Draw(t, "dy")*spanM}
+		}
+		tr, bad := viewport.CheckedTracker(pts)
+		var v viewport.View
+		stepM := props.LogUniform(0.01, spanM/10).Draw(t, "step_m")
+		for step := range rapid.IntRange(1, 60).Draw(t, "steps") {
+			if step > 0 {
+				u := viewport.ToMercator(c.User())
+				h := c.HeadingDeg * math.Pi / 180
+				u.X += stepM * math.Sin(h)
+				u.Y += stepM * math.Cos(h)
+				ll := u.LatLon()
+				c.LatDeg, c.LonDeg = ll[1], ll[0]
+				switch rapid.IntRange(0, 9).Draw(t, "change") {
+				case 0:
+					c.HeadingDeg = math.Mod(c.HeadingDeg+rapid.Float64Range(0, 30).Draw(t, "turn"), 360)
+				case 1:
+					c.Zoom = min(30, max(0, c.Zoom+rapid.Float64Range(-0.5, 0.5).Draw(t, "zoom_step")))
+				case 2:
+					c.PitchDeg = min(85, max(0, c.PitchDeg+rapid.Float64Range(-5, 5).Draw(t, "pitch_step")))
+				}
+			}
+			if err := v.Place(c); err != nil {
+				t.Skip(err.Error())
+			}
+			tr.See(&v)
+		}
+		if k, i := bad(); k >= 0 {
+			t.Fatalf("step %d: the tracker's answer for point %d (%v) is not ProjectMercator's", k, i, pts[i])
+		}
+	})
+}
+
+// A marker's safe distance never exceeds how far the footprint must move to
+// change its answer: the distance from the marker to the footprint's
+// boundary on the cylinder the map wraps round, the nearest over the
+// marker's copies a world apart. Views at zoom 0 to 3 half the time (many
+// reach far east or west), up to 20 otherwise; markers anywhere, or near a
+// vertex: without the cap on safe distances, a copy a world away that lies
+// nearer the footprint than the copy nearest T makes this fail in most
+// runs.
+func TestSafeDistanceWithinWrappedDistance(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		c := props.Camera().Draw(t, "camera")
+		c.Zoom = rapid.OneOf(rapid.Float64Range(0, 3), rapid.Float64Range(0, 20)).Draw(t, "zoom")
+		v, err := viewport.Prepare(c)
+		if err != nil {
+			t.Skip(err.Error())
+		}
+		fp := v.Footprint()
+		m := viewport.ToMercator(orb.Point{rapid.Float64Range(-180, 180).Draw(t, "lon"), rapid.Float64Range(-85, 85).Draw(t, "lat")})
+		if rapid.Bool().Draw(t, "near_footprint") && !fp.Empty {
+			// Near a vertex, a world away or not.
+			p := fp.Mercator[rapid.IntRange(0, 3).Draw(t, "vertex")]
+			off := rapid.Float64Range(-1, 1)
+			m = viewport.Mercator{X: p.X + off.Draw(t, "dx")*1e5, Y: p.Y + off.Draw(t, "dy")*1e5}
+		}
+		safeM, in, ok := viewport.SafeDistanceM(&v, m)
+		if !ok {
+			return
+		}
+		if want := v.ProjectMercator(m).InView(); in != want {
+			t.Fatalf("quick test says in view %v, ProjectMercator %v", in, want)
+		}
+		w := 2 * math.Pi * viewport.EarthRadiusM
+		dist := math.Inf(1)
+		for k := -2; k <= 2; k++ {
+			dist = min(dist, boundaryDistM(fp.Mercator, viewport.Mercator{X: m.X + float64(k)*w, Y: m.Y}))
+		}
+		if safeM > dist*(1+1e-9) {
+			t.Fatalf("%v: safe distance %.6g m beyond the distance %.6g m to the boundary, copies a world apart included", m, safeM, dist)
+		}
+	})
+}

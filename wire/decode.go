@@ -1,0 +1,152 @@
+package wire
+
+import (
+	"errors"
+	"strconv"
+	"strings"
+
+	jsonv2 "github.com/go-json-experiment/json"
+	"github.com/go-json-experiment/json/jsontext"
+)
+
+// opFields lists, per op, the top-level request fields it reads. A field
+// an op does not read is ignored whatever its type (SPEC §6: readers ignore
+// fields they do not know).
+var opFields = map[string][]string{
+	"hello":     {},
+	"project":   {"camera", "points"},
+	"unproject": {"camera", "pixels"},
+	"footprint": {"camera"},
+	"metrics":   {"route", "user", "markers", "camera"},
+	"zoom":      {"rules", "samples"},
+	"timeline": {"route", "start_along_m", "user", "device", "rules", "markers",
+		"horizon_s", "tick_s", "cap", "bucket_edges_s"},
+}
+
+// requestOpts decode requests as SPEC §6 reads them: keys matched exactly
+// (a "Lat" is not a "lat"), unknown keys ignored, and, like most readers,
+// the last of a repeated key taken.
+var requestOpts = jsonv2.JoinOptions(jsonv2.DefaultOptionsV2(), jsontext.AllowDuplicateNames(true))
+
+// DecodeRequest reads one request line. A field the request's op does not
+// read is ignored even when its type is wrong.
+func DecodeRequest(line []byte, req *Request) error {
+	for range 16 {
+		*req = Request{}
+		err := jsonv2.Unmarshal(line, req, requestOpts)
+		var se *jsonv2.SemanticError
+		if err == nil || !errors.As(err, &se) {
+			return err
+		}
+		top := topField(se.JSONPointer)
+		if top == "" || top == "op" || top == "id" {
+			return err
+		}
+		// The op may not be read yet when the error came first.
+		op := req.Op
+		if op == "" {
+			op = peekOp(line)
+		}
+		used, known := opFields[op]
+		if !known || containsStr(used, top) {
+			return err
+		}
+		// The bad field is one this op ignores: hide it and decode again.
+		line = hideKey(line, top)
+	}
+	return jsonv2.Unmarshal(line, req, requestOpts)
+}
+
+// topField returns the first token of a JSON pointer: the top-level field.
+func topField(p jsontext.Pointer) string {
+	for tok := range p.Tokens() {
+		return tok
+	}
+	return ""
+}
+
+// pointerPath writes a JSON pointer as a field path: "camera.device.width_px",
+// "points[2].lat".
+func pointerPath(p jsontext.Pointer) string {
+	var b strings.Builder
+	for tok := range p.Tokens() {
+		if n, err := strconv.Atoi(tok); err == nil && n >= 0 && b.Len() > 0 {
+			b.WriteString("[" + tok + "]")
+			continue
+		}
+		if b.Len() > 0 {
+			b.WriteByte('.')
+		}
+		b.WriteString(tok)
+	}
+	return b.String()
+}
+
+// peekOp reads just the op of a line.
+func peekOp(line []byte) string {
+	var head struct {
+		Op string `json:"op"`
+	}
+	jsonv2.Unmarshal(line, &head, requestOpts)
+	return head.Op
+}
+
+func containsStr(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
+	}
+	return false
+}
+
+// hideKey overwrites the top-level key name in line with underscores.
+func hideKey(line []byte, name string) []byte {
+	out := append([]byte(nil), line...)
+	depth := 0
+	inString, escaped := false, false
+	start := 0
+	for i := 0; i < len(out); i++ {
+		c := out[i]
+		if inString {
+			switch {
+			case escaped:
+				escaped = false
+			case c == '\\':
+				escaped = true
+			case c == '"':
+				inString = false
+				if depth == 1 && string(out[start+1:i]) == name && isKey(out, i+1) {
+					for j := start + 1; j < i; j++ {
+						out[j] = '_'
+					}
+				}
+			}
+			continue
+		}
+		switch c {
+		case '"':
+			inString, start = true, i
+		case '{', '[':
+			depth++
+		case '}', ']':
+			depth--
+		}
+	}
+	return out
+}
+
+// isKey reports whether the string that ended just before i is an object
+// key: the next non-space byte is a colon.
+func isKey(line []byte, i int) bool {
+	for ; i < len(line); i++ {
+		switch line[i] {
+		case ' ', '\t', '\r', '\n':
+			continue
+		case ':':
+			return true
+		}
+		return false
+	}
+	return false
+}

@@ -1,0 +1,363 @@
+package wire
+
+import (
+	"bytes"
+	"encoding/json"
+	"math"
+	"strconv"
+)
+
+// Hand-written encoders for the camera ops' answers, the bulk of any
+// stream: the same bytes as encoding/json writes for these types (the test
+// TestFastEncodersMatch holds them to it), several times faster.
+
+// appendFloat appends f as encoding/json writes a float64: the shortest
+// digits that read back to f, in plain notation from 1e-6 to 1e21 and in
+// exponent notation outside, with a one-digit exponent written as such.
+func appendFloat(b []byte, f float64) []byte {
+	abs := math.Abs(f)
+	format := byte('f')
+	if abs != 0 && (abs < 1e-6 || abs >= 1e21) {
+		format = 'e'
+	}
+	b = strconv.AppendFloat(b, f, format, -1, 64)
+	if format == 'e' {
+		// e-07 becomes e-7
+		if n := len(b); n >= 4 && b[n-4] == 'e' && b[n-3] == '-' && b[n-2] == '0' {
+			b[n-2] = b[n-1]
+			b = b[:n-1]
+		}
+	}
+	return b
+}
+
+func appendHead(b []byte, h *Head) []byte {
+	b = append(b, '{')
+	if len(h.ID) > 0 {
+		b = append(b, `"id":`...)
+		if bytes.ContainsAny(h.ID, " \t\r\n") {
+			// encoding/json writes a raw id compacted.
+			var c bytes.Buffer
+			json.Compact(&c, h.ID)
+			b = append(b, c.Bytes()...)
+		} else {
+			b = append(b, h.ID...)
+		}
+		b = append(b, ',')
+	}
+	return b
+}
+
+func appendLatLon(b []byte, p *LatLon) []byte {
+	b = append(b, `{"lat":`...)
+	b = appendFloat(b, p.Lat)
+	b = append(b, `,"lon":`...)
+	b = appendFloat(b, p.Lon)
+	return append(b, '}')
+}
+
+// fastMarshal encodes the answers it knows by hand and reports false for
+// the rest (and for anything it cannot write exactly as encoding/json
+// would, such as a non-finite number).
+func fastMarshal(v any) ([]byte, bool) {
+	b := make([]byte, 0, 256)
+	switch a := v.(type) {
+	case *ProjectAnswer:
+		b = appendHead(b, &a.Head)
+		b = append(b, `"screen":`...)
+		if a.Screen == nil {
+			b = append(b, "null"...)
+			break
+		}
+		b = append(b, '[')
+		for i, s := range a.Screen {
+			if i > 0 {
+				b = append(b, ',')
+			}
+			if s == nil {
+				b = append(b, "null"...)
+				continue
+			}
+			if !finite(s.X) || !finite(s.Y) || !finite(s.Depth) || s.MarginPx != nil && !finite(*s.MarginPx) {
+				return nil, false
+			}
+			b = append(b, `{"x":`...)
+			b = appendFloat(b, s.X)
+			b = append(b, `,"y":`...)
+			b = appendFloat(b, s.Y)
+			b = append(b, `,"depth":`...)
+			b = appendFloat(b, s.Depth)
+			b = append(b, `,"in_view":`...)
+			b = strconv.AppendBool(b, s.InView)
+			if s.MarginPx != nil {
+				b = append(b, `,"margin_px":`...)
+				b = appendFloat(b, *s.MarginPx)
+			}
+			b = append(b, '}')
+		}
+		b = append(b, ']')
+	case *UnprojectAnswer:
+		b = appendHead(b, &a.Head)
+		b = append(b, `"points":`...)
+		if a.Points == nil {
+			b = append(b, "null"...)
+			break
+		}
+		b = append(b, '[')
+		for i, p := range a.Points {
+			if i > 0 {
+				b = append(b, ',')
+			}
+			if p == nil {
+				b = append(b, "null"...)
+				continue
+			}
+			if !finite(p.Lat) || !finite(p.Lon) {
+				return nil, false
+			}
+			b = appendLatLon(b, p)
+		}
+		b = append(b, ']')
+	case *FootprintAnswer:
+		if !finite(a.AreaM2) || !finite(a.VisibleRadiusM) {
+			return nil, false
+		}
+		b = appendHead(b, &a.Head)
+		b = append(b, `"vertices":`...)
+		if a.Vertices == nil {
+			b = append(b, "null"...)
+		} else {
+			b = append(b, '[')
+			for i := range a.Vertices {
+				if i > 0 {
+					b = append(b, ',')
+				}
+				if !finite(a.Vertices[i].Lat) || !finite(a.Vertices[i].Lon) {
+					return nil, false
+				}
+				b = appendLatLon(b, &a.Vertices[i])
+			}
+			b = append(b, ']')
+		}
+		b = append(b, `,"area_m2":`...)
+		b = appendFloat(b, a.AreaM2)
+		b = append(b, `,"visible_radius_m":`...)
+		b = appendFloat(b, a.VisibleRadiusM)
+	case *Request:
+		return fastRequest(a)
+	case *Margins:
+		return fastMargins(a)
+	default:
+		return nil, false
+	}
+	return append(b, '}'), true
+}
+
+func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
+
+// appendOptNum appends *p as a number, or null.
+func appendOptNum(b []byte, p *float64) ([]byte, bool) {
+	if p == nil {
+		return append(b, "null"...), true
+	}
+	if !finite(*p) {
+		return b, false
+	}
+	return appendFloat(b, *p), true
+}
+
+// appendKeyNum appends ,"key":value (or "key":value when first) for a
+// field without omitempty.
+func appendKeyNum(b []byte, key string, p *float64, first bool) ([]byte, bool) {
+	if !first {
+		b = append(b, ',')
+	}
+	b = append(b, '"')
+	b = append(b, key...)
+	b = append(b, `":`...)
+	return appendOptNum(b, p)
+}
+
+// appendCamera appends a camera object as encoding/json writes it.
+func appendCamera(b []byte, c *Camera) ([]byte, bool) {
+	ok := true
+	b = append(b, '{')
+	for i, f := range [...]struct {
+		key string
+		p   *float64
+	}{{"lat", c.Lat}, {"lon", c.Lon}, {"heading_deg", c.HeadingDeg}, {"pitch_deg", c.PitchDeg}, {"zoom", c.Zoom}} {
+		var good bool
+		if b, good = appendKeyNum(b, f.key, f.p, i == 0); !good {
+			ok = false
+		}
+	}
+	b = append(b, `,"device":`...)
+	d := c.Device
+	if d == nil {
+		return append(b, "null}"...), ok
+	}
+	b = append(b, '{')
+	for i, f := range [...]struct {
+		key  string
+		p    *float64
+		omit bool
+	}{{"width_px", d.WidthPx, false}, {"height_px", d.HeightPx, false}, {"fov_y_deg", d.FovYDeg, false},
+		{"tile_px", d.TilePx, true}, {"anchor_x", d.AnchorX, true}, {"anchor_y", d.AnchorY, true},
+		{"inset_top_px", d.InsetTopPx, true}, {"inset_right_px", d.InsetRightPx, true},
+		{"inset_bottom_px", d.InsetBottomPx, true}, {"inset_left_px", d.InsetLeftPx, true},
+		{"far_ratio", d.FarRatio, true}} {
+		if f.omit && f.p == nil {
+			continue
+		}
+		var good bool
+		if b, good = appendKeyNum(b, f.key, f.p, i == 0); !good {
+			ok = false
+		}
+	}
+	return append(b, "}}"...), ok
+}
+
+// fastRequest encodes a camera-op request by hand (the bulk of a corpus),
+// and reports false for any other request.
+func fastRequest(r *Request) ([]byte, bool) {
+	if r.Route != nil || r.User != nil || r.Markers != nil || r.Rules != nil || r.Samples != nil || r.Device != nil ||
+		r.StartAlongM != nil || r.HorizonS != nil || r.TickS != nil || r.Cap != nil || r.BucketEdgesS != nil {
+		return nil, false
+	}
+	b := make([]byte, 0, 512)
+	b = append(b, `{"op":`...)
+	b = AppendString(b, r.Op)
+	if len(r.ID) > 0 {
+		if bytes.ContainsAny(r.ID, " \t\r\n") {
+			return nil, false
+		}
+		b = append(b, `,"id":`...)
+		b = append(b, r.ID...)
+	}
+	ok := true
+	if r.Camera != nil {
+		b = append(b, `,"camera":`...)
+		b, ok = appendCamera(b, r.Camera)
+	}
+	if len(r.Points) > 0 {
+		var good bool
+		b, good = appendPairs(b, "points", "lat", "lon", len(r.Points), func(i int) (x, y *float64, null bool) {
+			p := r.Points[i]
+			if p == nil {
+				return nil, nil, true
+			}
+			return p.Lat, p.Lon, false
+		})
+		ok = ok && good
+	}
+	if len(r.Pixels) > 0 {
+		var good bool
+		b, good = appendPairs(b, "pixels", "x", "y", len(r.Pixels), func(i int) (x, y *float64, null bool) {
+			p := r.Pixels[i]
+			if p == nil {
+				return nil, nil, true
+			}
+			return p.X, p.Y, false
+		})
+		ok = ok && good
+	}
+	if !ok {
+		return nil, false
+	}
+	return append(b, '}'), true
+}
+
+// appendPairs appends ,"key":[{"k1":x,"k2":y},…] for n entries, null where
+// pair says so.
+func appendPairs(b []byte, key, k1, k2 string, n int, pair func(i int) (x, y *float64, null bool)) ([]byte, bool) {
+	b = append(b, `,"`...)
+	b = append(b, key...)
+	b = append(b, `":[`...)
+	ok := true
+	for i := range n {
+		if i > 0 {
+			b = append(b, ',')
+		}
+		x, y, null := pair(i)
+		if null {
+			b = append(b, "null"...)
+			continue
+		}
+		var g1, g2 bool
+		b = append(b, '{')
+		b, g1 = appendKeyNum(b, k1, x, true)
+		b, g2 = appendKeyNum(b, k2, y, false)
+		b = append(b, '}')
+		ok = ok && g1 && g2
+	}
+	return append(b, ']'), ok
+}
+
+// appendOptNums appends "key":[…] for a slice of optional numbers.
+func appendOptNums(b []byte, key string, ps []*float64, first bool) ([]byte, bool) {
+	if !first {
+		b = append(b, ',')
+	}
+	b = append(b, '"')
+	b = append(b, key...)
+	b = append(b, `":[`...)
+	for i, p := range ps {
+		if i > 0 {
+			b = append(b, ',')
+		}
+		var good bool
+		if b, good = appendOptNum(b, p); !good {
+			return b, false
+		}
+	}
+	return append(b, ']'), true
+}
+
+// fastMargins encodes Margins by hand.
+func fastMargins(m *Margins) ([]byte, bool) {
+	b := make([]byte, 0, 128)
+	b = append(b, '{')
+	first, ok := true, true
+	for _, f := range [...]struct {
+		key string
+		ps  []*float64
+	}{{"margin_px", m.MarginPx}, {"horizon_px", m.HorizonPx}} {
+		if len(f.ps) == 0 {
+			continue
+		}
+		var good bool
+		b, good = appendOptNums(b, f.key, f.ps, first)
+		ok, first = ok && good, false
+	}
+	if m.EmptyPx != nil {
+		var good bool
+		b, good = appendKeyNum(b, "empty_px", m.EmptyPx, first)
+		ok, first = ok && good, false
+	}
+	for _, f := range [...]struct {
+		key string
+		ps  []*float64
+	}{{"side_margin_m", m.SideMarginM}, {"bucket_margin_s", m.BucketMarginS}, {"first_shown_margin_px", m.FirstShownMarginPx}} {
+		if len(f.ps) == 0 {
+			continue
+		}
+		var good bool
+		b, good = appendOptNums(b, f.key, f.ps, first)
+		ok, first = ok && good, false
+	}
+	return append(b, '}'), ok
+}
+
+// AppendString appends s as a JSON string, as encoding/json writes it
+// (which escapes <, > and & too).
+func AppendString(b []byte, s string) []byte {
+	for i := 0; i < len(s); i++ {
+		if c := s[i]; c < 0x20 || c >= 0x7f || c == '"' || c == '\\' || c == '<' || c == '>' || c == '&' {
+			q, _ := json.Marshal(s)
+			return append(b, q...)
+		}
+	}
+	b = append(b, '"')
+	b = append(b, s...)
+	return append(b, '"')
+}

@@ -1,0 +1,13 @@
+package wire
+
+// Margins are the reference's decision margins, kept beside the expected
+// answer: one entry per point, pixel, marker (null where the decision does
+// not exist).
+type Margins struct {
+	MarginPx           []*float64 `json:"margin_px,omitempty"`
+	HorizonPx          []*float64 `json:"horizon_px,omitempty"`
+	EmptyPx            *float64   `json:"empty_px,omitempty"`
+	SideMarginM        []*float64 `json:"side_margin_m,omitempty"`
+	BucketMarginS      []*float64 `json:"bucket_margin_s,omitempty"`
+	FirstShownMarginPx []*float64 `json:"first_shown_margin_px,omitempty"`
+}
