@@ -14,8 +14,8 @@ import (
 	"github.com/viewspec/viewspec/wire"
 )
 
-// Problem is one thing wrong with a corpus line.
-type Problem struct {
+// BadLine is one thing wrong with a corpus line.
+type BadLine struct {
 	Line int    `json:"line"`
 	ID   string `json:"id,omitempty"`
 	Msg  string `json:"message"`
@@ -25,7 +25,7 @@ type Problem struct {
 // request's op and id agreeing with the case's, unique ids, and the
 // expectation and margins being what the reference answers now (strict).
 // It returns the problems found and the number of cases read.
-func ValidateCorpus(r io.Reader) (problems []Problem, n int, err error) {
+func ValidateCorpus(r io.Reader) (problems []BadLine, n int, err error) {
 	sc := bufio.NewScanner(r)
 	sc.Buffer(make([]byte, 64<<10), corpus.MaxLineBytes)
 	seen := map[string]int{}
@@ -37,12 +37,12 @@ func ValidateCorpus(r io.Reader) (problems []Problem, n int, err error) {
 		}
 		n++
 		if err := corpus.ValidateLine("case", b); err != nil {
-			problems = append(problems, Problem{Line: line, Msg: "schema: " + err.Error()})
+			problems = append(problems, BadLine{Line: line, Msg: "schema: " + err.Error()})
 			continue
 		}
 		var c corpus.Case
 		if err := jsonv2.Unmarshal(b, &c, jsonOpts); err != nil {
-			problems = append(problems, Problem{Line: line, Msg: "case: " + err.Error()})
+			problems = append(problems, BadLine{Line: line, Msg: "case: " + err.Error()})
 			continue
 		}
 		// The request is read as eval reads it (keys matched exactly), so
@@ -50,29 +50,29 @@ func ValidateCorpus(r io.Reader) (problems []Problem, n int, err error) {
 		var req wire.Request
 		if err := wire.DecodeRequest(c.Request, &req); err != nil {
 			_, msg := wire.DecodeError(err)
-			problems = append(problems, Problem{Line: line, ID: c.ID, Msg: "request: " + msg})
+			problems = append(problems, BadLine{Line: line, ID: c.ID, Msg: "request: " + msg})
 			continue
 		}
 		if req.Op != c.Op {
-			problems = append(problems, Problem{Line: line, ID: c.ID, Msg: fmt.Sprintf("request.op %q is not the case's op %q", req.Op, c.Op)})
+			problems = append(problems, BadLine{Line: line, ID: c.ID, Msg: fmt.Sprintf("request.op %q is not the case's op %q", req.Op, c.Op)})
 		}
 		if id, _ := corpus.AnswerID(c.Request); id != c.ID {
-			problems = append(problems, Problem{Line: line, ID: c.ID, Msg: fmt.Sprintf("request.id %q is not the case's id", id)})
+			problems = append(problems, BadLine{Line: line, ID: c.ID, Msg: fmt.Sprintf("request.id %q is not the case's id", id)})
 		}
 		if j, dup := seen[c.ID]; dup {
-			problems = append(problems, Problem{Line: line, ID: c.ID, Msg: fmt.Sprintf("id repeats line %d", j)})
+			problems = append(problems, BadLine{Line: line, ID: c.ID, Msg: fmt.Sprintf("id repeats line %d", j)})
 		}
 		seen[c.ID] = line
 		fresh, err := corpus.NewCase(c.ID, c.Family, &req)
 		if err != nil {
-			problems = append(problems, Problem{Line: line, ID: c.ID, Msg: "the reference cannot answer it: " + err.Error()})
+			problems = append(problems, BadLine{Line: line, ID: c.ID, Msg: "the reference cannot answer it: " + err.Error()})
 			continue
 		}
 		if st, diffs := Compare(&c, fresh.Expect, &strict); st != Pass {
-			problems = append(problems, Problem{Line: line, ID: c.ID, Msg: "expect is not what the reference answers now: " + describeDiffs(diffs)})
+			problems = append(problems, BadLine{Line: line, ID: c.ID, Msg: "expect is not what the reference answers now: " + describeDiffs(diffs)})
 		}
 		if !jsonEqual(c.Margins, fresh.Margins) {
-			problems = append(problems, Problem{Line: line, ID: c.ID, Msg: "margins are not the reference's"})
+			problems = append(problems, BadLine{Line: line, ID: c.ID, Msg: "margins are not the reference's"})
 		}
 	}
 	if err := sc.Err(); err != nil {

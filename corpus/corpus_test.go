@@ -10,6 +10,7 @@ import (
 
 	"github.com/viewspec/viewspec/check"
 	"github.com/viewspec/viewspec/corpus"
+	"github.com/viewspec/viewspec/props"
 )
 
 // The shipped default corpus is exactly what its recorded command makes
@@ -71,7 +72,7 @@ func TestGenerateCoversFamilies(t *testing.T) {
 		t.Fatal(err)
 	}
 	st := corpus.CorpusStats(cases)
-	for _, f := range corpus.Families() {
+	for _, f := range props.Families() {
 		if st.ByFamily[f] == 0 {
 			t.Errorf("family %s is missing", f)
 		}

@@ -201,7 +201,7 @@ func uniqueName(r *rng, c *category, street string, used map[string]bool) string
 }
 
 // roadOf returns the first road of kind k.
-func roadOf(rs []road, k Kind) road {
+func roadOf(rs []road, k StreetKind) road {
 	for _, rd := range rs {
 		if rd.kind == k {
 			return rd

@@ -2,10 +2,10 @@ package demo
 
 import "github.com/viewspec/viewspec/viewport"
 
-// Device is a screen the scenario runs on: a name, the rule set meant for it (a RuleSet's Name) and
+// DeviceProfile is a screen the scenario runs on: a name, the rule set meant for it (a RuleSet's Name) and
 // the viewport device (logical pixels, y down; the user's arrow in the lower part of the screen, below
 // the centre, so that most of the screen shows the road ahead).
-type Device struct {
+type DeviceProfile struct {
 	Name  string
 	Rules string
 	viewport.Device
@@ -28,7 +28,7 @@ const (
 //   - incar-wide: 1280 × 480 px, 40°; a 280 px turn-by-turn panel on the left and a 96 px bar of
 //     controls at the bottom; the user at the middle of the clear area's width (39/64 of the screen)
 //     and at 7/10 of the height, 48 px above the bar.
-func newDevices() []Device {
+func newDevices() []DeviceProfile {
 	portrait := viewport.NewDevice(390, 844, 45)
 	portrait.AnchorY = 0.75
 	portrait.InsetTopPx, portrait.InsetBottomPx = 60, 120
@@ -42,7 +42,7 @@ func newDevices() []Device {
 	car.AnchorX = (280 + (1280-280)/2.0) / 1280 // 0.609375, exactly 39/64
 	car.AnchorY = 0.7
 
-	return []Device{
+	return []DeviceProfile{
 		{Name: DevicePhonePortrait, Rules: RulesPhone, Device: portrait},
 		{Name: DevicePhoneLandscape, Rules: RulesPhone, Device: landscape},
 		{Name: DeviceInCar, Rules: RulesInCar, Device: car},

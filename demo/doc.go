@@ -15,10 +15,10 @@
 //     number 0–10) with a name, a category (bakery, café, pharmacy, fuel, …) and its street; in the
 //     centre 12–26 m to either side of a street's centre line, by the ring and expressway 25–45 m,
 //     by the lane 15–25 m, never within 25 m (along the street) of a junction.
-//   - Drives ([Drive]): "town" (20–50 km/h on the grid, turning at junctions), "ring" (50–70 km/h,
+//   - Drives ([Tour]): "town" (20–50 km/h on the grid, turning at junctions), "ring" (50–70 km/h,
 //     three quarters of the way round) and "expressway" (100–120 km/h out of town, ending with the
 //     sharp exit, after which the speed drops to 34 km/h), each with one speed per segment.
-//   - Devices ([Device]): a phone in portrait (390 × 844 px) and landscape (844 × 390 px) with the
+//   - Devices ([DeviceProfile]): a phone in portrait (390 × 844 px) and landscape (844 × 390 px) with the
 //     phone rules, and a wide in-car screen (1280 × 480 px, a panel on the left and controls at the
 //     bottom) with the in-car rules.
 //   - Rule sets ([RuleSet]): fixtures/rules/phone.yaml and incar.yaml, copied byte for byte into

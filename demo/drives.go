@@ -6,11 +6,11 @@ import (
 	"github.com/viewspec/viewspec/routes"
 )
 
-// Drive is one scripted drive through Port Wren: its vertices along the streets ([lon, lat] WGS84
+// Tour is one scripted drive through Port Wren: its vertices along the streets ([lon, lat] WGS84
 // degrees, in the order driven) and the speed on each segment, SpeedsMps[i] for Points[i] →
 // Points[i+1], in m/s. Speeds are multiples of 0.1 m/s chosen inside the drive's stated range in km/h
 // (TownMinKmh and the like), so that × 3.6 never crosses its ends.
-type Drive struct {
+type Tour struct {
 	Name        string
 	Description string
 	Points      []orb.Point
@@ -18,7 +18,7 @@ type Drive struct {
 }
 
 // Route prepares the drive as a route (SPEC §4): the vertices and the per-segment speeds.
-func (d Drive) Route() (*routes.Route, error) { return routes.New(d.Points, d.SpeedsMps) }
+func (d Tour) Route() (*routes.Route, error) { return routes.New(d.Points, d.SpeedsMps) }
 
 // The drives' names.
 const (
@@ -66,14 +66,14 @@ func speed0(r *rng, lo, hi float64) float64 {
 }
 
 // newDrives draws the three drives.
-func newDrives(seed uint64, l *layout) []Drive {
-	return []Drive{townDrive(seed, l), ringDrive(seed, l), expresswayDrive(seed, l)}
+func newDrives(seed uint64, l *layout) []Tour {
+	return []Tour{townDrive(seed, l), ringDrive(seed, l), expresswayDrive(seed, l)}
 }
 
 // townDrive is a walk on the grid: legs of 1–3 blocks along avenues and cross streets, turning left
 // or right at a junction after each, never driving a block twice. It pulls away and turns slowly
 // (20–25 km/h over 20 m after a turn and 30 m before one) and cruises at 30–50 km/h in between.
-func townDrive(seed uint64, l *layout) Drive {
+func townDrive(seed uint64, l *layout) Tour {
 	r := newRNG(seed, "drive/town")
 	ns, na := len(l.nodes), len(l.nodes[0])
 	type node struct{ i, j int }
@@ -155,7 +155,7 @@ func townDrive(seed uint64, l *layout) Drive {
 	}
 	last := path[len(path)-1]
 	pts = append(pts, l.nodes[last.i][last.j])
-	return Drive{
+	return Tour{
 		Name: DriveTown,
 		Description: "through the town centre at 20–50 km/h, turning at junctions: " +
 			"a slow 20 m after each turn and 30 m before the next",
@@ -166,7 +166,7 @@ func townDrive(seed uint64, l *layout) Drive {
 
 // ringDrive goes three quarters of the way round the ring from where a main road meets it, at
 // 50–54 km/h on the stretches beside a junction and 59–70 km/h elsewhere.
-func ringDrive(seed uint64, l *layout) Drive {
+func ringDrive(seed uint64, l *layout) Tour {
 	r := newRNG(seed, "drive/ring")
 	start, step := l.spokes[r.intn(4)], 1
 	if r.intn(2) == 0 {
@@ -190,7 +190,7 @@ func ringDrive(seed uint64, l *layout) Drive {
 		k = next
 	}
 	pts = append(pts, l.ring[k])
-	return Drive{
+	return Tour{
 		Name:        DriveRing,
 		Description: "three quarters of the way round the Gorse Ring at 50–70 km/h, slower beside its junctions",
 		Points:      lonLats(pts),
@@ -200,7 +200,7 @@ func ringDrive(seed uint64, l *layout) Drive {
 
 // expresswayDrive joins the expressway at the ring, runs out along it at 100–120 km/h, eases to
 // 100 km/h and takes the sharp exit onto the slip road, slowing from 54 to 34 km/h.
-func expresswayDrive(seed uint64, l *layout) Drive {
+func expresswayDrive(seed uint64, l *layout) Tour {
 	r := newRNG(seed, "drive/expressway")
 	pts := append([]vec(nil), l.fast[:l.exitAt+1]...)
 	speeds := make([]float64, 0, l.exitAt+len(slipSpeedsMps))
@@ -213,7 +213,7 @@ func expresswayDrive(seed uint64, l *layout) Drive {
 	}
 	pts = append(pts, l.slip[1:]...)
 	speeds = append(speeds, slipSpeedsMps...)
-	return Drive{
+	return Tour{
 		Name: DriveExpressway,
 		Description: "out along the Tarrow Expressway at 100–120 km/h, easing to 100 km/h, then the sharp " +
 			"exit onto the Tarrow Slip, slowing from 54 to 34 km/h",

@@ -14,7 +14,7 @@ import (
 // streets' own, or points between two of them rounded to 1e-7° (≤ 1.1 cm in each of lat and lon).
 const onStreetM = 0.02
 
-func mustRoute(t *testing.T, d demo.Drive) *routes.Route {
+func mustRoute(t *testing.T, d demo.Tour) *routes.Route {
 	t.Helper()
 	r, err := d.Route()
 	if err != nil {

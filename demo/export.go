@@ -48,7 +48,7 @@ func (s *Scenario) BusinessesGeoJSON() ([]byte, error) {
 
 // GeoJSON returns the drive as a GeoJSON Feature with a LineString and properties name and speed_mps
 // (one speed per segment, m/s): a route file as geofile.ReadRoute reads it.
-func (d Drive) GeoJSON() ([]byte, error) {
+func (d Tour) GeoJSON() ([]byte, error) {
 	f := geojson.NewFeature(orb.LineString(d.Points))
 	f.Properties["name"] = d.Name
 	f.Properties["speed_mps"] = d.SpeedsMps

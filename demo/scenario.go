@@ -13,11 +13,11 @@ const DefaultSeed uint64 = 0x506f72745772656e
 // drives through it, the devices and the rule sets. Everything in it follows from Seed.
 type Scenario struct {
 	Seed       uint64
-	Streets    []Street   // avenues, cross streets, the ring, the expressway, its slip road, the lane
-	Businesses []Business // ids pw-001… in street order
-	Drives     []Drive    // town, ring, expressway
-	Devices    []Device   // phone-portrait, phone-landscape, incar-wide
-	RuleSets   []RuleSet  // phone, incar
+	Streets    []Street        // avenues, cross streets, the ring, the expressway, its slip road, the lane
+	Businesses []Business      // ids pw-001… in street order
+	Drives     []Tour          // town, ring, expressway
+	Devices    []DeviceProfile // phone-portrait, phone-landscape, incar-wide
+	RuleSets   []RuleSet       // phone, incar
 }
 
 // Default returns the default town, New(DefaultSeed): a fresh copy on every call, so callers may
@@ -51,23 +51,23 @@ func (s *Scenario) Markers() []timeline.Marker {
 }
 
 // Drive returns the drive called name, and false when there is none.
-func (s *Scenario) Drive(name string) (Drive, bool) {
+func (s *Scenario) Drive(name string) (Tour, bool) {
 	for _, d := range s.Drives {
 		if d.Name == name {
 			return d, true
 		}
 	}
-	return Drive{}, false
+	return Tour{}, false
 }
 
 // Device returns the device called name, and false when there is none.
-func (s *Scenario) Device(name string) (Device, bool) {
+func (s *Scenario) Device(name string) (DeviceProfile, bool) {
 	for _, d := range s.Devices {
 		if d.Name == name {
 			return d, true
 		}
 	}
-	return Device{}, false
+	return DeviceProfile{}, false
 }
 
 // RuleSet returns the rule set called name, and false when there is none.
@@ -84,7 +84,7 @@ func (s *Scenario) RuleSet(name string) (RuleSet, bool) {
 // from the drive's start and with the defaults of timeline.NewDrive: a 120 s horizon, 0.25 s ticks,
 // 4 markers at once, buckets at 5 and 35 s. The error is the route's (routes.New) or an unknown rule
 // set.
-func (s *Scenario) TimelineDrive(d Drive, dev Device) (timeline.Drive, error) {
+func (s *Scenario) TimelineDrive(d Tour, dev DeviceProfile) (timeline.Drive, error) {
 	rt, err := d.Route()
 	if err != nil {
 		return timeline.Drive{}, fmt.Errorf("drive %s: %w", d.Name, err)

@@ -90,11 +90,11 @@ func TestCounts(t *testing.T) {
 		if n := len(s.RuleSets); n != 2 {
 			t.Errorf("New(%#x): %d rule sets, want 2", seed, n)
 		}
-		kinds := map[demo.Kind]int{}
+		kinds := map[demo.StreetKind]int{}
 		for _, st := range s.Streets {
 			kinds[st.Kind]++
 		}
-		for k, want := range map[demo.Kind]int{demo.KindRing: 1, demo.KindExpressway: 1, demo.KindSlip: 1, demo.KindLane: 1} {
+		for k, want := range map[demo.StreetKind]int{demo.KindRing: 1, demo.KindExpressway: 1, demo.KindSlip: 1, demo.KindLane: 1} {
 			if kinds[k] != want {
 				t.Errorf("New(%#x): %d streets of kind %s, want %d", seed, kinds[k], k, want)
 			}

@@ -6,23 +6,23 @@ import (
 	"github.com/paulmach/orb"
 )
 
-// Kind is what sort of road a street is.
-type Kind string
+// StreetKind is what sort of road a street is.
+type StreetKind string
 
 const (
-	KindAvenue     Kind = "avenue"     // a town-centre avenue, along AvenueBearingDeg
-	KindStreet     Kind = "street"     // a town-centre cross street, at right angles to the avenues
-	KindRing       Kind = "ring"       // the ring road round the centre (a closed line)
-	KindExpressway Kind = "expressway" // the fast road from the ring out to the headland
-	KindSlip       Kind = "slip"       // the slip road leaving the expressway at its sharp exit
-	KindLane       Kind = "lane"       // the country lane beyond the slip road
+	KindAvenue     StreetKind = "avenue"     // a town-centre avenue, along AvenueBearingDeg
+	KindStreet     StreetKind = "street"     // a town-centre cross street, at right angles to the avenues
+	KindRing       StreetKind = "ring"       // the ring road round the centre (a closed line)
+	KindExpressway StreetKind = "expressway" // the fast road from the ring out to the headland
+	KindSlip       StreetKind = "slip"       // the slip road leaving the expressway at its sharp exit
+	KindLane       StreetKind = "lane"       // the country lane beyond the slip road
 )
 
 // Street is one named road: its vertices in the order it is drawn ([lon, lat] WGS84 degrees, rounded
 // to 1e-7°). The ring's first and last vertices are the same point.
 type Street struct {
 	Name   string
-	Kind   Kind
+	Kind   StreetKind
 	Points []orb.Point
 }
 
@@ -195,7 +195,7 @@ func shuffled(r *rng, xs []string) []string {
 // road is a street in the local frame, with its name and kind.
 type road struct {
 	name string
-	kind Kind
+	kind StreetKind
 	pts  []vec
 }
 

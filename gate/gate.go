@@ -24,19 +24,19 @@ import (
 	"github.com/viewspec/viewspec/viewport"
 )
 
-// Drive is one drive to compare the rule sets on: a name, its route with
+// Trip is one drive to compare the rule sets on: a name, its route with
 // speeds, and where it starts.
-type Drive struct {
+type Trip struct {
 	Name        string
 	Route       *routes.Route
 	StartAlongM float64
 }
 
-// ReadDrives reads drive files: route files (GeoJSON with
+// ReadTrips reads drive files: route files (GeoJSON with
 // properties.speed_mps, or GPX 1.1 with times; SPEC §4), named by their
 // properties.name or their file name. A folder stands for its *.geojson,
 // *.json and *.gpx files, in name order.
-func ReadDrives(paths []string) ([]Drive, error) {
+func ReadTrips(paths []string) ([]Trip, error) {
 	var files []string
 	for _, p := range paths {
 		st, err := os.Stat(p)
@@ -64,7 +64,7 @@ func ReadDrives(paths []string) ([]Drive, error) {
 		slices.Sort(in)
 		files = append(files, in...)
 	}
-	drives := make([]Drive, 0, len(files))
+	drives := make([]Trip, 0, len(files))
 	for _, f := range files {
 		data, err := os.ReadFile(f)
 		if err != nil {
@@ -82,7 +82,7 @@ func ReadDrives(paths []string) ([]Drive, error) {
 			return nil, fmt.Errorf("%s: %v", f, err)
 		}
 		name := strings.TrimSuffix(filepath.Base(f), filepath.Ext(f))
-		drives = append(drives, Drive{Name: name, Route: r})
+		drives = append(drives, Trip{Name: name, Route: r})
 	}
 	return drives, nil
 }
@@ -98,22 +98,22 @@ type Trace struct {
 	Band     []int
 }
 
-// Run is one drive under one rule set.
-type Run struct {
+// Outcome is one drive under one rule set.
+type Outcome struct {
 	Markers []timeline.Result
 	Trace   Trace
 	// AreaS is the footprint's area integrated over the drive, m²·s.
 	AreaS float64
 }
 
-// DriveDiff compares one drive under the two rule sets.
-type DriveDiff struct {
+// TripDiff compares one drive under the two rule sets.
+type TripDiff struct {
 	Name string `json:"name"`
 	Measures
 	// Moves[from][to] counts markers by their bucket under the base rules
 	// (from) and the new rules (to), in the order early, mid, late, never.
 	Moves     [4][4]int `json:"moves"`
-	Base, New Run       `json:"-"`
+	Base, New Outcome   `json:"-"`
 	drives    int       // drives folded in (the total)
 }
 
@@ -146,14 +146,14 @@ type Measures struct {
 	PitchMaxNew     float64 `json:"pitch_max_new"`
 }
 
-// Report is the whole comparison.
-type Report struct {
-	Drives []DriveDiff `json:"drives"`
-	Total  DriveDiff   `json:"total"`
+// Comparison is the whole comparison.
+type Comparison struct {
+	Drives []TripDiff `json:"drives"`
+	Total  TripDiff   `json:"total"`
 }
 
-// Options are the drives' common inputs.
-type Options struct {
+// Setup are the drives' common inputs.
+type Setup struct {
 	Device  viewport.Device
 	Markers []timeline.Marker
 	// Configure, when set, adjusts each drive before it runs (horizon,
@@ -162,12 +162,12 @@ type Options struct {
 }
 
 // runDrive drives dr under rs and records the trace.
-func runDrive(dr Drive, rs *rules.Set, opt *Options) (Run, error) {
+func runDrive(dr Trip, rs *rules.Set, opt *Setup) (Outcome, error) {
 	d := timeline.NewDrive(dr.Route, dr.StartAlongM, opt.Device, rs)
 	if opt.Configure != nil {
 		opt.Configure(&d)
 	}
-	var run Run
+	var run Outcome
 	n := d.Ticks() + 1
 	run.Trace = Trace{TimesS: make([]float64, 0, n), Zoom: make([]float64, 0, n), PitchDeg: make([]float64, 0, n), Band: make([]int, 0, n)}
 	d.OnTick = func(k int, v *viewport.View, _ []int) {
@@ -188,9 +188,9 @@ func runDrive(dr Drive, rs *rules.Set, opt *Options) (Run, error) {
 
 func bucketIndex(b timeline.Bucket) int { return slices.Index(Buckets, b) }
 
-// Diff drives every drive under base and next and compares them.
-func Diff(drives []Drive, base, next *rules.Set, opt Options) (*Report, error) {
-	rep := &Report{Total: DriveDiff{Name: "total"}}
+// CompareRules drives every drive under base and next and compares them.
+func CompareRules(drives []Trip, base, next *rules.Set, opt Setup) (*Comparison, error) {
+	rep := &Comparison{Total: TripDiff{Name: "total"}}
 	for _, dr := range drives {
 		b, err := runDrive(dr, base, &opt)
 		if err != nil {
@@ -200,7 +200,7 @@ func Diff(drives []Drive, base, next *rules.Set, opt Options) (*Report, error) {
 		if err != nil {
 			return nil, err
 		}
-		dd := DriveDiff{Name: dr.Name, Base: b, New: n}
+		dd := TripDiff{Name: dr.Name, Base: b, New: n}
 		dd.compare(opt.Markers)
 		rep.Drives = append(rep.Drives, dd)
 		rep.Total.add(&dd)
@@ -209,7 +209,7 @@ func Diff(drives []Drive, base, next *rules.Set, opt Options) (*Report, error) {
 	return rep, nil
 }
 
-func (dd *DriveDiff) compare(ms []timeline.Marker) {
+func (dd *TripDiff) compare(ms []timeline.Marker) {
 	m := &dd.Measures
 	m.Markers = len(ms)
 	for i := range ms {
@@ -248,7 +248,7 @@ func (dd *DriveDiff) compare(ms []timeline.Marker) {
 }
 
 // add folds a drive into the total.
-func (dd *DriveDiff) add(o *DriveDiff) {
+func (dd *TripDiff) add(o *TripDiff) {
 	m, x := &dd.Measures, &o.Measures
 	first := dd.drives == 0
 	dd.drives++
@@ -283,7 +283,7 @@ func (dd *DriveDiff) add(o *DriveDiff) {
 }
 
 // finish computes the percentages.
-func (dd *DriveDiff) finish() {
+func (dd *TripDiff) finish() {
 	m := &dd.Measures
 	m.GainedShownPct = pct(m.GainedShownS, m.ShownSBase)
 	m.LostShownPct = pct(m.LostShownS, m.ShownSBase)

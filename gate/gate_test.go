@@ -29,7 +29,7 @@ func threeBands(topZoom float64) *rules.Set {
 
 // A fast drive: 30 m/s (108 km/h) north for 5 km, with markers on the road
 // every 150 m from 100 m to 4.6 km ahead.
-func fastDrive(t *testing.T) (gate.Drive, []timeline.Marker) {
+func fastDrive(t *testing.T) (gate.Trip, []timeline.Marker) {
 	r, err := routes.New([]orb.Point{{-31.17, 44.90}, {-31.17, 44.95}}, []float64{30})
 	if err != nil {
 		t.Fatal(err)
@@ -38,7 +38,7 @@ func fastDrive(t *testing.T) (gate.Drive, []timeline.Marker) {
 	for i, d := 0, 100.0; d < 4600; i, d = i+1, d+150 {
 		ms = append(ms, timeline.Marker{ID: fmt.Sprintf("m%02d", i), Point: r.PointAt(d)})
 	}
-	return gate.Drive{Name: "fast", Route: r}, ms
+	return gate.Trip{Name: "fast", Route: r}, ms
 }
 
 func phone() viewport.Device {
@@ -50,7 +50,7 @@ func phone() viewport.Device {
 // A rule set against itself changes nothing.
 func TestDiffAgainstItself(t *testing.T) {
 	dr, ms := fastDrive(t)
-	rep, err := gate.Diff([]gate.Drive{dr}, threeBands(15), threeBands(15), gate.Options{Device: phone(), Markers: ms})
+	rep, err := gate.CompareRules([]gate.Trip{dr}, threeBands(15), threeBands(15), gate.Setup{Device: phone(), Markers: ms})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -74,8 +74,8 @@ func TestDiffAgainstItself(t *testing.T) {
 // sooner by freeing a slot).
 func TestDiffRaisingTopZoom(t *testing.T) {
 	dr, ms := fastDrive(t)
-	opt := gate.Options{Device: phone(), Markers: ms, Configure: func(d *timeline.Drive) { d.Cap = len(ms) }}
-	rep, err := gate.Diff([]gate.Drive{dr}, threeBands(15), threeBands(17), opt)
+	opt := gate.Setup{Device: phone(), Markers: ms, Configure: func(d *timeline.Drive) { d.Cap = len(ms) }}
+	rep, err := gate.CompareRules([]gate.Trip{dr}, threeBands(15), threeBands(17), opt)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -7,19 +7,19 @@ import (
 	"text/tabwriter"
 )
 
-// GateResult is the outcome of the gate conditions on the total.
-type GateResult struct {
+// Verdict is the outcome of the gate conditions on the total.
+type Verdict struct {
 	Condition string  `json:"condition"`
 	Value     float64 `json:"value"`
 	Holds     bool    `json:"holds"`
 }
 
 // Check evaluates the conditions on the report's total.
-func (r *Report) Check(conds []Condition) []GateResult {
-	out := make([]GateResult, len(conds))
+func (r *Comparison) Check(conds []Condition) []Verdict {
+	out := make([]Verdict, len(conds))
 	for i, c := range conds {
 		holds, v := c.Holds(&r.Total.Measures)
-		out[i] = GateResult{Condition: c.String(), Value: v, Holds: holds}
+		out[i] = Verdict{Condition: c.String(), Value: v, Holds: holds}
 	}
 	return out
 }
@@ -31,9 +31,9 @@ func sec(v float64) string { return fmt.Sprintf("%.1f s", v) }
 func signedPct(v float64) string { return fmt.Sprintf("%+.1f %%", v) }
 
 // WriteText writes the report for a terminal.
-func (r *Report) WriteText(w io.Writer, baseName, newName string, gates []GateResult) error {
+func (r *Comparison) WriteText(w io.Writer, baseName, newName string, gates []Verdict) error {
 	fmt.Fprintf(w, "rules diff: %s → %s on %d drive(s), %d marker(s)\n", baseName, newName, len(r.Drives), r.perDriveMarkers())
-	for _, dd := range append(append([]DriveDiff(nil), r.Drives...), r.Total) {
+	for _, dd := range append(append([]TripDiff(nil), r.Drives...), r.Total) {
 		m := &dd.Measures
 		fmt.Fprintf(w, "\n%s\n", dd.Name)
 		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
@@ -55,7 +55,7 @@ func (r *Report) WriteText(w io.Writer, baseName, newName string, gates []GateRe
 	return nil
 }
 
-func writeGates(w io.Writer, gates []GateResult, bullet string) {
+func writeGates(w io.Writer, gates []Verdict, bullet string) {
 	if len(gates) == 0 {
 		return
 	}
@@ -70,7 +70,7 @@ func writeGates(w io.Writer, gates []GateResult, bullet string) {
 }
 
 // perDriveMarkers is the number of markers each drive was run with.
-func (r *Report) perDriveMarkers() int {
+func (r *Comparison) perDriveMarkers() int {
 	if len(r.Drives) == 0 {
 		return 0
 	}
@@ -85,7 +85,7 @@ type Plot struct {
 
 // WriteMarkdown writes the report ready to paste into a code review,
 // linking the plots.
-func (r *Report) WriteMarkdown(w io.Writer, baseName, newName string, gates []GateResult, plots []Plot) error {
+func (r *Comparison) WriteMarkdown(w io.Writer, baseName, newName string, gates []Verdict, plots []Plot) error {
 	fmt.Fprintf(w, "## Zoom rules: `%s` → `%s`\n\n", baseName, newName)
 	fmt.Fprintf(w, "%d drive(s), %d marker(s) each.\n\n", len(r.Drives), r.perDriveMarkers())
 	if len(gates) > 0 {
@@ -100,7 +100,7 @@ func (r *Report) WriteMarkdown(w io.Writer, baseName, newName string, gates []Ga
 	}
 	fmt.Fprintln(w, "| drive | moved | to never | out of never | shown gained | shown lost | area-seconds | band changes | zoom range | pitch range |")
 	fmt.Fprintln(w, "|---|---:|---:|---:|---:|---:|---:|---:|---|---|")
-	for _, dd := range append(append([]DriveDiff(nil), r.Drives...), r.Total) {
+	for _, dd := range append(append([]TripDiff(nil), r.Drives...), r.Total) {
 		m := &dd.Measures
 		name := dd.Name
 		if name == "total" {

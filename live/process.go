@@ -50,7 +50,7 @@ func Start(command string, timeout time.Duration) (*Process, error) {
 	if timeout <= 0 {
 		timeout = DefaultTimeout
 	}
-	p := &Process{Command: command, Timeout: timeout, tail: &tail{}}
+	p := &Process{Command: command, Timeout: timeout, tail: &tail{done: make(chan struct{})}}
 	cmd := exec.Command("sh", "-c", command)
 	cmd.SysProcAttr = &syscall.SysProcAttr{Setpgid: true}
 	stdin, err := cmd.StdinPipe()
@@ -226,12 +226,14 @@ func (p *Process) Stderr(n int) string { return p.tail.last(n) }
 
 // tail keeps the last 4 KiB a process writes to stderr.
 type tail struct {
-	mu  sync.Mutex
-	buf []byte
+	mu   sync.Mutex
+	buf  []byte
+	done chan struct{} // closed when stderr has ended
 }
 
 // fill copies r into the tail until r ends.
 func (t *tail) fill(r io.ReadCloser) {
+	defer close(t.done)
 	defer r.Close()
 	b := make([]byte, 4096)
 	for {
@@ -248,7 +250,13 @@ func (t *tail) fill(r io.ReadCloser) {
 	}
 }
 
+// last returns the last n lines, once stderr has ended or 100 ms have
+// passed (a helper the process left behind may hold stderr open).
 func (t *tail) last(n int) string {
+	select {
+	case <-t.done:
+	case <-time.After(100 * time.Millisecond):
+	}
 	t.mu.Lock()
 	defer t.mu.Unlock()
 	lines := strings.Split(strings.TrimSpace(string(t.buf)), "\n")

@@ -45,29 +45,29 @@ func (Reference) Answer(line []byte) ([]byte, error) { return reference.AnswerLi
 // Close does nothing.
 func (Reference) Close() error { return nil }
 
-// Process is an implementation run as a child process, one request and
+// Command is an implementation run as a child process, one request and
 // one answer at a time. When it crashes or hangs it is killed, and the
 // next request starts a fresh one, so that a crash can be shrunk like any
 // other disagreement.
-type Process struct {
+type Command struct {
 	Command string
 	Timeout time.Duration
 
 	p *live.Process
 }
 
-// NewProcess returns a Process for command (run with sh -c) with a
+// NewCommand returns a Process for command (run with sh -c) with a
 // per-answer timeout (live.DefaultTimeout when not positive).
-func NewProcess(command string, timeout time.Duration) *Process {
+func NewCommand(command string, timeout time.Duration) *Command {
 	if timeout <= 0 {
 		timeout = live.DefaultTimeout
 	}
-	return &Process{Command: command, Timeout: timeout}
+	return &Command{Command: command, Timeout: timeout}
 }
 
 // Answer sends one request line and waits for one answer line; a failure
 // to answer ends the process.
-func (p *Process) Answer(line []byte) ([]byte, error) {
+func (p *Command) Answer(line []byte) ([]byte, error) {
 	if p.p == nil {
 		lp, err := live.Start(p.Command, p.Timeout)
 		if err != nil {
@@ -91,7 +91,7 @@ func (p *Process) Answer(line []byte) ([]byte, error) {
 }
 
 // Ops asks hello.
-func (p *Process) Ops() ([]string, error) {
+func (p *Command) Ops() ([]string, error) {
 	ans, err := p.Answer([]byte(`{"op":"hello","id":"probe-hello"}`))
 	if err != nil {
 		return nil, err
@@ -104,7 +104,7 @@ func (p *Process) Ops() ([]string, error) {
 }
 
 // Close stops the process.
-func (p *Process) Close() error {
+func (p *Command) Close() error {
 	if p.p != nil {
 		p.p.Close()
 		p.p = nil
@@ -338,7 +338,7 @@ func scanOp(impl Impl, op string, opt *Options) (*Disagreement, error) {
 		}
 		cases := d.cases
 		ck := check.NewChecker(opt.Profile)
-		if p, ok := impl.(*Process); ok {
+		if p, ok := impl.(*Command); ok {
 			if _, err := check.Run(cases, check.RunOptions{Command: p.Command, Timeout: p.Timeout}, ck); err != nil {
 				return nil, err
 			}

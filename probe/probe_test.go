@@ -29,7 +29,7 @@ func TestProbeFindsNothingAgainstReference(t *testing.T) {
 	}
 }
 
-func pythonImpl(t *testing.T, mistake string) *probe.Process {
+func pythonImpl(t *testing.T, mistake string) *probe.Command {
 	python := testtool.Need(t, "python3", "python3")
 	_, file, _, _ := runtime.Caller(0)
 	script := filepath.Join(filepath.Dir(file), "..", "fixtures", "examples", "python", "viewspec_py.py")
@@ -37,7 +37,7 @@ func pythonImpl(t *testing.T, mistake string) *probe.Process {
 	if mistake != "" {
 		cmd += " --mistake " + mistake
 	}
-	return probe.NewProcess(cmd, 5*time.Second)
+	return probe.NewCommand(cmd, 5*time.Second)
 }
 
 // The prober finds each planted mistake of the Python example within 1,000
@@ -102,7 +102,7 @@ func TestProbeCrashIsAFinding(t *testing.T) {
     *) echo "tilted camera, giving up" >&2; exit 7 ;;
   esac
 done`
-	p := probe.NewProcess(script, 5*time.Second)
+	p := probe.NewCommand(script, 5*time.Second)
 	defer p.Close()
 	f, err := probe.Find(p, probe.Options{Ops: []string{"footprint"}, Checks: 200, Seed: 1})
 	if err != nil || f == nil {
@@ -133,7 +133,7 @@ func BenchmarkProbeEval(b *testing.B) {
 	eval := buildEval(b)
 	for _, op := range []string{"project", "unproject", "footprint", "metrics", "zoom", "timeline"} {
 		b.Run(op, func(b *testing.B) {
-			p := probe.NewProcess(eval, 5*time.Second)
+			p := probe.NewCommand(eval, 5*time.Second)
 			defer p.Close()
 			b.ResetTimer()
 			f, err := probe.Find(p, probe.Options{Ops: []string{op}, Checks: b.N, Seed: 1})

@@ -36,7 +36,7 @@
 //
 // [Parse] and [Lint] never panic on any input. Every problem names the file, line and column of the
 // offending YAML node and the field path, and an invalid value is never turned into a number: errors are
-// [Problem]s (gathered in [Errors]), lint results are [Finding]s with a [Severity] and a [Kind].
+// [Problem]s (gathered in [Errors]), lint results are [Finding]s with a [Severity] and a [ProblemKind].
 //
 // # Out of scope
 //

@@ -5,23 +5,23 @@ import (
 	"strings"
 )
 
-// Kind names what is wrong with a rule set, so that callers and tests can tell problems apart without
+// ProblemKind names what is wrong with a rule set, so that callers and tests can tell problems apart without
 // reading messages.
-type Kind int
+type ProblemKind int
 
 // The kinds of problem. Errors first, then warnings (see [Finding] for which is which).
 const (
-	KindSyntax      Kind = iota + 1 // the text is not one well-formed YAML (or JSON) document
-	KindType                        // a value of the wrong type: a string where a number belongs, a list for an object
-	KindMissing                     // a required field is absent or null, or the band list is empty
-	KindUnknown                     // a field the format does not have
-	KindDuplicate                   // the same field twice in one object
-	KindNotFinite                   // NaN or ±Inf
-	KindRange                       // a number outside its interval
-	KindOrder                       // band edges not strictly increasing, or sample times not strictly increasing
-	KindLastEdge                    // below_kmh on the last band, which has no upper edge
-	KindMinAboveMax                 // min_zoom > max_zoom
-	KindNotStarted                  // Step on a State that Start did not make
+	KindSyntax      ProblemKind = iota + 1 // the text is not one well-formed YAML (or JSON) document
+	KindType                               // a value of the wrong type: a string where a number belongs, a list for an object
+	KindMissing                            // a required field is absent or null, or the band list is empty
+	KindUnknown                            // a field the format does not have
+	KindDuplicate                          // the same field twice in one object
+	KindNotFinite                          // NaN or ±Inf
+	KindRange                              // a number outside its interval
+	KindOrder                              // band edges not strictly increasing, or sample times not strictly increasing
+	KindLastEdge                           // below_kmh on the last band, which has no upper edge
+	KindMinAboveMax                        // min_zoom > max_zoom
+	KindNotStarted                         // Step on a State that Start did not make
 
 	// KindZoomRises (warning): a band's zoom is above the lowest zoom of the slower bands, so the map
 	// would zoom in as the vehicle speeds up. Reported at that band's zoom. Equal zooms are fine.
@@ -56,7 +56,7 @@ var kindNames = [...]string{
 }
 
 // String returns the kind's stable name, as used in JSON reports ("range", "zoom-rises", …).
-func (k Kind) String() string {
+func (k ProblemKind) String() string {
 	if k > 0 && int(k) < len(kindNames) {
 		return kindNames[k]
 	}
@@ -64,14 +64,14 @@ func (k Kind) String() string {
 }
 
 // MarshalText writes the kind's name, so that reports encode it as a string.
-func (k Kind) MarshalText() ([]byte, error) { return []byte(k.String()), nil }
+func (k ProblemKind) MarshalText() ([]byte, error) { return []byte(k.String()), nil }
 
 // Problem is one problem with one field of a rule set or of an evaluation's input. Field is a path in
 // the document's own names ("bands[1].zoom", "turn.within_m", "samples[3].t_s"; empty for the document
 // as a whole) and Msg says what is wrong with the value in it ("31 is outside [0, 30]"). File, Line and
 // Col are set when the rule set came from text ([Parse]); Line and Col are 1-based, 0 when unknown.
 type Problem struct {
-	Kind  Kind
+	Kind  ProblemKind
 	Field string
 	Msg   string
 	File  string
@@ -162,13 +162,13 @@ func (s Severity) MarshalText() ([]byte, error) { return []byte(s.String()), nil
 // node: the value when there is one, the enclosing object when a field is missing, the key when a field is
 // unknown or repeated. Col is 0 when only the line is known (some YAML syntax errors).
 type Finding struct {
-	Severity Severity `json:"severity"`
-	Kind     Kind     `json:"kind"`
-	File     string   `json:"file"`
-	Line     int      `json:"line"`
-	Col      int      `json:"col"`
-	Field    string   `json:"field"`
-	Message  string   `json:"message"`
+	Severity Severity    `json:"severity"`
+	Kind     ProblemKind `json:"kind"`
+	File     string      `json:"file"`
+	Line     int         `json:"line"`
+	Col      int         `json:"col"`
+	Field    string      `json:"field"`
+	Message  string      `json:"message"`
 }
 
 // String formats the finding as "file:line:col: severity: field: message".

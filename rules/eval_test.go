@@ -223,7 +223,7 @@ func TestEvaluateRejectsBadSamples(t *testing.T) {
 	cases := []struct {
 		name      string
 		samples   []Sample
-		kind      Kind
+		kind      ProblemKind
 		wantError string
 	}{
 		{"time repeats", []Sample{{TS: 1}, {TS: 2}, {TS: 2}}, KindOrder,

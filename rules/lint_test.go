@@ -354,7 +354,7 @@ func TestFindingText(t *testing.T) {
 	b, err = KindWideHysteresis.MarshalText()
 	require.NoError(t, err)
 	require.Equal(t, "wide-hysteresis", string(b))
-	require.Equal(t, "kind(99)", Kind(99).String())
+	require.Equal(t, "kind(99)", ProblemKind(99).String())
 	require.Equal(t, "severity(0)", Severity(0).String())
 	require.Equal(t, "x: m", (&Problem{Field: "x", Msg: "m"}).Error())
 	require.Equal(t, "m", (&Problem{Msg: "m"}).Error())

@@ -169,12 +169,12 @@ func (c *checker) finish() []Finding {
 	return out
 }
 
-func (c *checker) add(sev Severity, k Kind, field string, n *yaml.Node, msg string) {
+func (c *checker) add(sev Severity, k ProblemKind, field string, n *yaml.Node, msg string) {
 	c.findings = append(c.findings, c.finding(sev, k, field, n, msg))
 }
 
 // finding places a finding at node n, or at line 1 when there is no node.
-func (c *checker) finding(sev Severity, k Kind, field string, n *yaml.Node, msg string) Finding {
+func (c *checker) finding(sev Severity, k ProblemKind, field string, n *yaml.Node, msg string) Finding {
 	line, col := 1, 0
 	if n != nil && n.Line > 0 {
 		line, col = n.Line, n.Column
@@ -182,7 +182,7 @@ func (c *checker) finding(sev Severity, k Kind, field string, n *yaml.Node, msg 
 	return Finding{Severity: sev, Kind: k, File: c.file, Line: line, Col: col, Field: field, Message: msg}
 }
 
-func (c *checker) addLine(k Kind, line, col int, msg string) {
+func (c *checker) addLine(k ProblemKind, line, col int, msg string) {
 	if line < 1 {
 		line, col = 1, 0
 	}

@@ -75,7 +75,7 @@ func (c *Camera) checkAnchor(f, sinP, cosP float64) error {
 	b := d.HeightPx/2 - d.AnchorY*d.HeightPx
 	if f*cosP-b*sinP <= 0 {
 		return spec.Out("device.anchor_y", d.AnchorY,
-			"the anchor pixel is at or above the horizon at pitch "+FormatNumber(c.PitchDeg)+"°")
+			"the anchor pixel is at or above the horizon at pitch "+spec.FormatNumber(c.PitchDeg)+"°")
 	}
 	return nil
 }
@@ -130,8 +130,8 @@ func (c *Camera) validateFields() error {
 	}
 	if w := d.WidthPx - d.InsetLeftPx - d.InsetRightPx; !(w > 0) {
 		return spec.Out("device.inset_left_px+inset_right_px", d.InsetLeftPx+d.InsetRightPx,
-			"insets leave no clear area (they must sum to less than width_px "+FormatNumber(d.WidthPx)+")")
+			"insets leave no clear area (they must sum to less than width_px "+spec.FormatNumber(d.WidthPx)+")")
 	}
 	return spec.Out("device.inset_top_px+inset_bottom_px", d.InsetTopPx+d.InsetBottomPx,
-		"insets leave no clear area (they must sum to less than height_px "+FormatNumber(d.HeightPx)+")")
+		"insets leave no clear area (they must sum to less than height_px "+spec.FormatNumber(d.HeightPx)+")")
 }

@@ -160,7 +160,7 @@ func runDemo(w io.Writer, dir, python string) error {
 		d.summary = append(d.summary, fmt.Sprintf("with the planted mistake %s it fails %d cases — caught", mistake, bad.Counts.Fail))
 
 		d.step("probing the planted mistake and shrinking what it finds")
-		proc := probe.NewProcess(impl+" --mistake "+mistake, 5*time.Second)
+		proc := probe.NewCommand(impl+" --mistake "+mistake, 5*time.Second)
 		f, err := probe.Find(proc, probe.Options{Ops: []string{"project"}, Checks: 1000, Seed: 1, ShrinkTime: 10 * time.Second})
 		proc.Close()
 		if err != nil {
@@ -321,7 +321,7 @@ func describeCase(c corpus.Case) string {
 		spec.FormatNumber(*req.Camera.Zoom), len(req.Points)+len(req.Pixels))
 }
 
-func mustLength(dr demo.Drive) float64 {
+func mustLength(dr demo.Tour) float64 {
 	r, err := dr.Route()
 	if err != nil {
 		return 0

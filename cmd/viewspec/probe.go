@@ -55,7 +55,7 @@ same seed draws the same cases.`,
 					}
 				}
 			}
-			proc := probe.NewProcess(impl, timeout)
+			proc := probe.NewCommand(impl, timeout)
 			defer proc.Close()
 			stderr := cmd.ErrOrStderr()
 			f, err := probe.Find(proc, probe.Options{Ops: ops, Checks: checks, Seed: seed, Profile: p, ShrinkTime: shrink,

@@ -48,7 +48,7 @@ Measures: ` + strings.Join(gate.MeasureNames(), ", ") + `.`,
 			if len(drives) == 0 {
 				return &exitError{2, fmt.Errorf("--drives DIR|FILE is required")}
 			}
-			ds, err := gate.ReadDrives(drives)
+			ds, err := gate.ReadTrips(drives)
 			if err != nil {
 				return &exitError{2, err}
 			}
@@ -70,7 +70,7 @@ Measures: ` + strings.Join(gate.MeasureNames(), ", ") + `.`,
 				}
 				conds = append(conds, c)
 			}
-			rep, err := gate.Diff(ds, base, next, gate.Options{Device: dev, Markers: ms})
+			rep, err := gate.CompareRules(ds, base, next, gate.Setup{Device: dev, Markers: ms})
 			if err != nil {
 				return &exitError{2, err}
 			}
@@ -80,8 +80,8 @@ Measures: ` + strings.Join(gate.MeasureNames(), ", ") + `.`,
 			switch {
 			case asJSON:
 				if err := writeJSON(out, struct {
-					*gate.Report
-					Gates []gate.GateResult `json:"gates"`
+					*gate.Comparison
+					Gates []gate.Verdict `json:"gates"`
 				}{rep, gates}); err != nil {
 					return err
 				}
@@ -128,7 +128,7 @@ Measures: ` + strings.Join(gate.MeasureNames(), ", ") + `.`,
 // writeDiffPlots writes the report's plots beside the markdown file, as
 // SVG, and returns them for the report to link: per drive, zoom and pitch
 // over time under both rule sets; and the markers moving between buckets.
-func writeDiffPlots(markdown string, rep *gate.Report, baseName, newName string) ([]gate.Plot, error) {
+func writeDiffPlots(markdown string, rep *gate.Comparison, baseName, newName string) ([]gate.Plot, error) {
 	dir := filepath.Dir(markdown)
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return nil, err
