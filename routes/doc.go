@@ -38,7 +38,7 @@
 //
 // # Cost
 //
-// A Route is prepared once (O(n log² n)); Snap and Metrics then search a k-d tree of boxes over
+// A Route is prepared once (O(n log n)); Snap and Metrics then search a k-d tree of boxes over
 // the segments (in 3-D unit-sphere coordinates, so seamless at the antimeridian and the poles) and
 // touch few of them, and, like the along-route helpers, do not allocate. On a 2-core VM, Metrics
 // for 200 markers takes about 0.2 ms on a 500-vertex route and 0.25 ms on a 20,000-vertex one.

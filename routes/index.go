@@ -11,10 +11,14 @@ package routes
 // consecutive segments had ~60 boxes over every point of a tangled 20,000-vertex drive). "At or
 // ahead of segment u" skips children whose largest index is below u. Queries touch about ten nodes
 // and six segments on a 500-vertex city drive, twenty nodes on a 20,000-vertex one.
+//
+// The build (treeBuilder) is O(n log n): each split finds the median by selection, in time linear
+// in the node's segments, not by sorting them, and the boxes are made bottom-up, a parent's from
+// its children's. Centres that tie along the split axis go by segment index, so every split, and
+// so the tree, is fully determined by the segments: the same tree a sort at every level made.
 
 import (
 	"math"
-	"sort"
 
 	"github.com/golang/geo/r3"
 )
@@ -76,77 +80,266 @@ func toBox32(lo, hi r3.Vector) box32 {
 }
 
 // buildTree builds the index over segs: the internal nodes, the root's code (see node), and the
-// items in leaf order.
+// items in leaf order. See treeBuilder for how, in O(n log n).
 func buildTree(segs []segment) ([]node, int32, []item) {
-	type entry struct {
-		seg    int32
-		centre r3.Vector
-		lo, hi r3.Vector
+	b := treeBuilder{
+		segs:  segs,
+		es:    make([]buildEntry, len(segs)),
+		boxes: make([]segBox, len(segs)),
+		nodes: make([]node, 0, 2*(len(segs)/leafSegs+1)),
+		items: make([]item, len(segs)),
 	}
-	es := make([]entry, len(segs))
 	for i := range segs {
 		lo, hi := arcBox(&segs[i])
-		es[i] = entry{seg: int32(i), centre: lo.Add(hi).Mul(0.5), lo: lo, hi: hi}
+		c := lo.Add(hi).Mul(0.5)
+		b.boxes[i] = segBox{lo, hi}
+		b.es[i] = buildEntry{centre: [3]float64{c.X, c.Y, c.Z}, seg: int32(i)}
 	}
-	// rangeBox returns the box and the largest segment index of es[first:last].
-	rangeBox := func(first, last int) (box32, int32) {
-		lo := r3.Vector{X: math.Inf(1), Y: math.Inf(1), Z: math.Inf(1)}
-		hi := lo.Mul(-1)
-		maxSeg := int32(-1)
-		for _, e := range es[first:last] {
-			lo = r3.Vector{X: math.Min(lo.X, e.lo.X), Y: math.Min(lo.Y, e.lo.Y), Z: math.Min(lo.Z, e.lo.Z)}
-			hi = r3.Vector{X: math.Max(hi.X, e.hi.X), Y: math.Max(hi.Y, e.hi.Y), Z: math.Max(hi.Z, e.hi.Z)}
-			maxSeg = max(maxSeg, e.seg)
-		}
-		return toBox32(lo, hi), maxSeg
+	root := b.build(0, len(segs)).code // before reading b.nodes, which it appends to
+	return b.nodes, root, b.items
+}
+
+// treeBuilder builds the index top-down, splitting each range of entries at the median of their
+// box centres along the widest axis of those centres, and makes the boxes bottom-up:
+//
+//   - the split selects the median (selectNth), which leaves the lower half before it and the upper
+//     half after it, each in no particular order, in time linear in the range, so a level of the
+//     tree costs O(n) and the build O(n log n) (sorting every range instead cost O(n log² n));
+//   - a leaf's box is made from its segments' boxes and an internal node's from its children's,
+//     so each segment's box is read once.
+//
+// The order is strict (equal centres go by segment index), so the halves of every split are
+// determined by the set of entries alone, and the tree is the one a full sort at every level makes
+// (it was built that way until 2026-12; index_test.go checks the two builds agree exactly). A
+// leaf's items are in their parent's split order, by centre along its axis and then by index; the
+// root, when it is a leaf, keeps the route's order. A box is the componentwise min and max of the
+// boxes under it, exact in any order of combination.
+type treeBuilder struct {
+	segs  []segment
+	es    []buildEntry // the segments, reordered in place into leaf order
+	boxes []segBox     // each segment's box (arcBox), by segment index
+	nodes []node
+	items []item
+}
+
+// buildEntry is a segment while the tree is built: the centre of its box (unit-sphere units) and
+// its index.
+type buildEntry struct {
+	centre [3]float64
+	seg    int32
+}
+
+// segBox is a box as its float64 corners, unit-sphere units.
+type segBox struct {
+	lo, hi r3.Vector
+}
+
+// subtree is what treeBuilder.build made: the code of its root (see node), the float64 box of all
+// the arcs in it and the largest segment index in it.
+type subtree struct {
+	code   int32
+	box    segBox
+	maxSeg int32
+}
+
+// build builds the tree over es[first:last] and returns it. Internal nodes are numbered in
+// preorder.
+func (b *treeBuilder) build(first, last int) subtree {
+	if last-first <= leafSegs {
+		return b.leaf(first, last)
 	}
-	nodes := make([]node, 0, 2*(len(segs)/leafSegs+1))
-	ends := make([]bool, len(segs))
-	var build func(first, last int) int32
-	build = func(first, last int) int32 {
-		if last-first <= leafSegs {
-			ends[last-1] = true
-			return ^int32(first)
-		}
-		// Split at the median of the centres along their widest axis.
-		cLo := r3.Vector{X: math.Inf(1), Y: math.Inf(1), Z: math.Inf(1)}
-		cHi := cLo.Mul(-1)
-		for _, e := range es[first:last] {
-			cLo = r3.Vector{X: math.Min(cLo.X, e.centre.X), Y: math.Min(cLo.Y, e.centre.Y), Z: math.Min(cLo.Z, e.centre.Z)}
-			cHi = r3.Vector{X: math.Max(cHi.X, e.centre.X), Y: math.Max(cHi.Y, e.centre.Y), Z: math.Max(cHi.Z, e.centre.Z)}
-		}
-		ext := cHi.Sub(cLo)
-		key := func(v r3.Vector) float64 { return v.X }
-		if ext.Y >= ext.X && ext.Y >= ext.Z {
-			key = func(v r3.Vector) float64 { return v.Y }
-		} else if ext.Z >= ext.X && ext.Z >= ext.Y {
-			key = func(v r3.Vector) float64 { return v.Z }
-		}
-		part := es[first:last]
-		sort.Slice(part, func(i, j int) bool {
-			ki, kj := key(part[i].centre), key(part[j].centre)
-			if ki != kj {
-				return ki < kj
-			}
-			return part[i].seg < part[j].seg // deterministic
-		})
-		mid := (first + last) / 2
-		idx := int32(len(nodes))
-		nodes = append(nodes, node{})
-		var nd node
-		nd.box[0], nd.maxSeg[0] = rangeBox(first, mid)
-		nd.box[1], nd.maxSeg[1] = rangeBox(mid, last)
-		nd.child[0] = build(first, mid)
-		nd.child[1] = build(mid, last)
-		nodes[idx] = nd
-		return idx
+	axis := b.widestAxis(first, last)
+	mid := (first + last) / 2
+	selectNth(b.es[first:last], mid-first, axis)
+	idx := int32(len(b.nodes))
+	b.nodes = append(b.nodes, node{})
+	l := b.build(first, mid)
+	r := b.build(mid, last)
+	b.nodes[idx] = node{
+		box:    [2]box32{toBox32(l.box.lo, l.box.hi), toBox32(r.box.lo, r.box.hi)},
+		child:  [2]int32{l.code, r.code},
+		maxSeg: [2]int32{l.maxSeg, r.maxSeg},
 	}
-	root := build(0, len(segs))
-	items := make([]item, len(es))
-	for i, e := range es {
-		items[i] = item{arc: segs[e.seg].arc, seg: e.seg, end: ends[i]}
+	return subtree{code: idx, box: l.box.union(&r.box), maxSeg: max(l.maxSeg, r.maxSeg)}
+}
+
+// leaf makes es[first:last] a leaf, its entries written out as items in the order they are in. A
+// leaf's parent holds at most 2·leafSegs + 1 entries, which selectNth sorts outright (see
+// selectSmall), so that order is the parent's split order.
+func (b *treeBuilder) leaf(first, last int) subtree {
+	es := b.es[first:last]
+	inf := math.Inf(1)
+	st := subtree{code: ^int32(first), box: segBox{r3.Vector{X: inf, Y: inf, Z: inf}, r3.Vector{X: -inf, Y: -inf, Z: -inf}}, maxSeg: -1}
+	for k := range es {
+		seg := es[k].seg
+		st.box = st.box.union(&b.boxes[seg])
+		st.maxSeg = max(st.maxSeg, seg)
+		b.items[first+k] = item{arc: b.segs[seg].arc, seg: seg}
 	}
-	return nodes, root, items
+	b.items[last-1].end = true
+	return st
+}
+
+// widestAxis returns the axis (0, 1, 2 for x, y, z) along which the centres of es[first:last]
+// spread the most; on equal spreads y before z before x.
+func (b *treeBuilder) widestAxis(first, last int) int {
+	inf := math.Inf(1)
+	loX, loY, loZ, hiX, hiY, hiZ := inf, inf, inf, -inf, -inf, -inf
+	for _, e := range b.es[first:last] {
+		loX, loY, loZ = min(loX, e.centre[0]), min(loY, e.centre[1]), min(loZ, e.centre[2])
+		hiX, hiY, hiZ = max(hiX, e.centre[0]), max(hiY, e.centre[1]), max(hiZ, e.centre[2])
+	}
+	extX, extY, extZ := hiX-loX, hiY-loY, hiZ-loZ
+	switch {
+	case extY >= extX && extY >= extZ:
+		return 1
+	case extZ >= extX && extZ >= extY:
+		return 2
+	}
+	return 0
+}
+
+// union returns the smallest box holding bx and o. Go's min and max, like math.Min and math.Max,
+// order −0 before +0, so the result does not depend on the order boxes are combined in.
+func (bx segBox) union(o *segBox) segBox {
+	return segBox{
+		r3.Vector{X: min(bx.lo.X, o.lo.X), Y: min(bx.lo.Y, o.lo.Y), Z: min(bx.lo.Z, o.lo.Z)},
+		r3.Vector{X: max(bx.hi.X, o.hi.X), Y: max(bx.hi.Y, o.hi.Y), Z: max(bx.hi.Z, o.hi.Z)},
+	}
+}
+
+// less orders entries by their centres along axis, equal centres by segment index: a strict total
+// order, since segment indices differ.
+func (e *buildEntry) less(f *buildEntry, axis int) bool {
+	if e.centre[axis] != f.centre[axis] {
+		return e.centre[axis] < f.centre[axis]
+	}
+	return e.seg < f.seg
+}
+
+// selectNth reorders es so that es[k] is the entry a sort by less along axis would put there, with
+// the entries less than it before it and the others after (C++'s nth_element). Deterministic and
+// O(len(es)) at worst: pivots are medians of three (ninthers on long ranges), and should those
+// shrink the range too slowly, so that the ranges partitioned add up to more than
+// selectWorkFactor·len(es), the rest goes with the median of medians, which always shrinks it by
+// 3/10 or more.
+func selectNth(es []buildEntry, k, axis int) {
+	selectNthWithin(es, k, axis, selectWorkFactor*len(es))
+}
+
+// selectWorkFactor bounds, as a multiple of the length, the entries partitioned with cheap pivots
+// before selectNth turns to the median of medians. With medians of three, finding a median takes
+// about 2.75·n comparisons on average (Kirschenhofer, Prodinger and Martínez, "Analysis of Hoare's
+// FIND algorithm with median-of-three partition", 1997), so the switch is rare and comes late.
+const selectWorkFactor = 5
+
+// selectSmall is the longest range that selection sorts outright, by insertion. It must be at
+// least 2·leafSegs + 1, the most entries a leaf's parent holds, for the leaves' order (see
+// treeBuilder.leaf); the constant below does not compile otherwise.
+const selectSmall = 12
+
+const _ = uint(selectSmall - (2*leafSegs + 1))
+
+// selectNthWithin is selectNth with the cheap pivots' budget given, in entries partitioned.
+func selectNthWithin(es []buildEntry, k, axis, budget int) {
+	lo, hi := 0, len(es)
+	for hi-lo > selectSmall {
+		budget -= hi - lo
+		var p int
+		if budget >= 0 {
+			p = pivotNinther(es, lo, hi, axis)
+		} else {
+			p = pivotMedianOfMedians(es, lo, hi, axis)
+		}
+		p = partitionAround(es, lo, hi, p, axis)
+		switch {
+		case k < p:
+			hi = p
+		case k > p:
+			lo = p + 1
+		default:
+			return
+		}
+	}
+	insertionSort(es[lo:hi], axis)
+}
+
+// partitionAround reorders es[lo:hi] around the pivot es[p]: entries less than it, then it, then
+// the greater ones. It returns the pivot's new index.
+func partitionAround(es []buildEntry, lo, hi, p, axis int) int {
+	es[lo], es[p] = es[p], es[lo]
+	pivot := es[lo]
+	i, j := lo+1, hi-1
+	for {
+		for i <= j && es[i].less(&pivot, axis) {
+			i++
+		}
+		for i <= j && pivot.less(&es[j], axis) {
+			j--
+		}
+		if i > j {
+			break
+		}
+		es[i], es[j] = es[j], es[i]
+		i++
+		j--
+	}
+	es[lo], es[j] = es[j], es[lo]
+	return j
+}
+
+// pivotNinther returns the index of a pivot for es[lo:hi] (at least 3 entries): the median of the
+// first, middle and last entries, or on 128 or more entries the median of three such medians
+// (Tukey's ninther), which resists the ordered runs that along-route order leaves.
+func pivotNinther(es []buildEntry, lo, hi, axis int) int {
+	n := hi - lo
+	m := lo + n/2
+	if n < 128 {
+		return median3(es, lo, m, hi-1, axis)
+	}
+	s := n / 8
+	return median3(es,
+		median3(es, lo, lo+s, lo+2*s, axis),
+		median3(es, m-s, m, m+s, axis),
+		median3(es, hi-1-2*s, hi-1-s, hi-1, axis), axis)
+}
+
+// median3 returns whichever of the indices a, b, c holds the median of their three entries.
+func median3(es []buildEntry, a, b, c, axis int) int {
+	if es[b].less(&es[a], axis) {
+		a, b = b, a
+	}
+	if es[c].less(&es[b], axis) {
+		if es[c].less(&es[a], axis) {
+			return a
+		}
+		return c
+	}
+	return b
+}
+
+// pivotMedianOfMedians returns the index of a pivot for es[lo:hi] (at least 5 entries) with at
+// least 3/10 of the range, less a few entries, on each side: the median of the medians of groups
+// of five (Blum, Floyd, Pratt, Rivest and Tarjan, "Time bounds for selection", 1973). It gathers
+// the medians at the front of the range.
+func pivotMedianOfMedians(es []buildEntry, lo, hi, axis int) int {
+	g := 0
+	for i := lo; i+5 <= hi; i += 5 {
+		insertionSort(es[i:i+5], axis)
+		es[lo+g], es[i+2] = es[i+2], es[lo+g] // lo+g lies in a group already done
+		g++
+	}
+	selectNth(es[lo:lo+g], g/2, axis)
+	return lo + g/2
+}
+
+// insertionSort sorts es by less along axis.
+func insertionSort(es []buildEntry, axis int) {
+	for i := 1; i < len(es); i++ {
+		for j := i; j > 0 && es[j].less(&es[j-1], axis); j-- {
+			es[j], es[j-1] = es[j-1], es[j]
+		}
+	}
 }
 
 // boxDist2 returns the squared Euclidean distance from q to the box (0 inside).

@@ -110,7 +110,7 @@ func New(points []orb.Point, speedsMps []float64) (*Route, error) {
 			return nil, err
 		}
 	}
-	r := &Route{}
+	r := &Route{segs: make([]segment, 0, len(points)-1), pts: make([]orb.Point, 0, len(points)), preps: make([]ellPoint, 0, len(points))}
 	prevIdx := 0
 	prevVec, _, _ := unitVec(points[0])
 	prevPrep := prepLatLon(points[0][1], points[0][0])
