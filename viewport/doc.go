@@ -1,7 +1,8 @@
 // Package viewport is the camera of a heading-up, tilted navigation map: the
 // Web Mercator plane, projection of ground points to screen pixels and back,
-// the in-view test with its decision margin, and the footprint (the ground
-// region the screen shows).
+// the in-view test with its decision margin, the footprint (the ground
+// region the screen shows), and the in-view tracking of a view that moves a
+// little at a time (View.Place, Tracker), which the drive timeline uses.
 //
 // Conventions, everywhere in this package:
 //
@@ -17,6 +18,7 @@
 //   - Ground metres are Mercator metres scaled by cos φ of the user's
 //     latitude (see GroundScale for the error bound of that approximation).
 //
-// Everything here is a pure function of small value types; there is no I/O.
-// Zoom rule sets and the drive timeline live elsewhere.
+// Everything here is a pure function of small value types (a Tracker is
+// the one piece of state); there is no I/O. The package imports only spec:
+// routes, zoom rule sets and the drive timeline live in their own packages.
 package viewport

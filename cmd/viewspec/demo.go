@@ -94,111 +94,139 @@ func runDemo(w io.Writer, dir, python string) error {
 	if err != nil {
 		return err
 	}
-	eval := shellQuote(self) + " eval"
 	town := demo.Default()
 	fmt.Fprintf(w, "viewspec demo: Port Wren, an invented island town (%d streets, %d businesses, %d drives)\n",
 		len(town.Streets), len(town.Businesses), len(town.Drives))
+	if err := d.writeTown(town); err != nil {
+		return err
+	}
+	cases, err := d.checkReference(shellQuote(self) + " eval")
+	if err != nil {
+		return err
+	}
+	if err := d.python(cases, python); err != nil {
+		return err
+	}
+	if err := d.drives(town); err != nil {
+		return err
+	}
+	d.printSummary()
+	return nil
+}
 
-	// 1. The scenario's files.
+// writeTown writes the scenario's files: streets, businesses, drives, rule
+// sets.
+func (d *demoRun) writeTown(town *demo.Scenario) error {
 	d.step("writing the town: streets, businesses, drives, rule sets")
-	written, err := town.WriteFiles(dir)
+	written, err := town.WriteFiles(d.dir)
 	if err != nil {
 		return err
 	}
 	d.files = append(d.files, written...)
+	return nil
+}
 
-	// 2. A corpus, and the reference checked against it through the wire.
+// checkReference makes a corpus and checks the reference against it
+// through the wire (eval is the command that runs `viewspec eval`).
+func (d *demoRun) checkReference(eval string) ([]corpus.Case, error) {
 	d.step("making a fixture corpus (seed 1, about 1,500 cases) and checking the reference through `viewspec eval`")
-	corpusFile := filepath.Join(dir, "corpus.jsonl")
+	corpusFile := filepath.Join(d.dir, "corpus.jsonl")
 	if err := corpus.WriteFileAtomic(corpusFile, func(w io.Writer) error {
 		_, err := corpus.Generate(w, 1, 1500, nil)
 		return err
 	}); err != nil {
-		return err
+		return nil, err
 	}
 	d.files = append(d.files, corpusFile)
 	cases, err := readCorpusFile(corpusFile)
 	if err != nil {
-		return err
+		return nil, err
 	}
 	ref, err := d.run(cases, eval, "reference")
 	if err != nil {
-		return err
+		return nil, err
 	}
 	d.summary = append(d.summary, fmt.Sprintf("the reference passes its own corpus: %d of %d cases (strict)", ref.Counts.Pass, len(cases)))
+	return cases, nil
+}
 
-	// 3. The Python implementation, clean and with a planted mistake, and
-	// the prober on the mistake.
+// python runs the independent Python implementation through the corpus,
+// clean and with a planted mistake, and probes the mistake; without
+// python3 it says so and skips.
+func (d *demoRun) python(cases []corpus.Case, python string) error {
 	py, err := exec.LookPath(python)
 	if err != nil {
 		d.step("python3 not found: skipping the second implementation, its planted mistake and the probe")
 		d.summary = append(d.summary, "python3 is missing: the Python steps were skipped (install Debian's python3 to see them)")
-	} else {
-		script := filepath.Join(dir, "python", "viewspec_py.py")
-		if err := d.write(filepath.Join("python", "viewspec_py.py"), fixtures.PythonExample); err != nil {
-			return err
-		}
-		impl := shellQuote(py) + " " + shellQuote(script)
-		d.step("running the independent Python implementation through the corpus")
-		clean, err := d.run(cases, impl, "python-clean")
-		if err != nil {
-			return err
-		}
-		verdict := "passes"
-		if clean.Failed() {
-			verdict = "FAILS"
-		}
-		d.summary = append(d.summary, fmt.Sprintf("the Python implementation %s the corpus: %d pass, %d borderline, %d fail, %d skipped (ops it does not speak)",
-			verdict, clean.Counts.Pass, clean.Counts.Borderline, clean.Counts.Fail, clean.Counts.Skipped))
-
-		const mistake = "heading-ccw"
-		d.step("running it again with a planted mistake: %s (the heading taken counter-clockwise)", mistake)
-		bad, err := d.run(cases, impl+" --mistake "+mistake, "python-"+mistake)
-		if err != nil {
-			return err
-		}
-		d.summary = append(d.summary, fmt.Sprintf("with the planted mistake %s it fails %d cases — caught", mistake, bad.Counts.Fail))
-
-		d.step("probing the planted mistake and shrinking what it finds")
-		proc := probe.NewCommand(impl+" --mistake "+mistake, 5*time.Second)
-		f, err := probe.Find(proc, probe.Options{Ops: []string{"project"}, Checks: 1000, Seed: 1, ShrinkTime: 10 * time.Second})
-		proc.Close()
-		if err != nil {
-			return err
-		}
-		if f == nil {
-			d.summary = append(d.summary, "the prober did not find the planted mistake (unexpected)")
-		} else {
-			printFinding(w, f)
-			line, err := corpus.CaseLine(f.Case)
-			if err != nil {
-				return err
-			}
-			if err := d.write("probe-finding.jsonl", line); err != nil {
-				return err
-			}
-			d.summary = append(d.summary, fmt.Sprintf("the prober found it after %d case(s) and shrank it to %s: probe-finding.jsonl", f.Checks, describeCase(f.Case)))
-		}
+		return nil
 	}
-
-	// 4. The drives' timelines, footprints and a page to look at.
-	if err := d.drives(town); err != nil {
+	script := filepath.Join(d.dir, "python", "viewspec_py.py")
+	if err := d.write(filepath.Join("python", "viewspec_py.py"), fixtures.PythonExample); err != nil {
 		return err
 	}
-
-	fmt.Fprintf(w, "\nsummary (%.1f s):\n", time.Since(d.start).Seconds())
-	for _, s := range d.summary {
-		fmt.Fprintf(w, "  - %s\n", s)
+	impl := shellQuote(py) + " " + shellQuote(script)
+	d.step("running the independent Python implementation through the corpus")
+	clean, err := d.run(cases, impl, "python-clean")
+	if err != nil {
+		return err
 	}
-	fmt.Fprintf(w, "\n%d files in %s/, among them:\n", len(d.files), dir)
+	verdict := "passes"
+	if clean.Failed() {
+		verdict = "FAILS"
+	}
+	d.summary = append(d.summary, fmt.Sprintf("the Python implementation %s the corpus: %d pass, %d borderline, %d fail, %d skipped (ops it does not speak)",
+		verdict, clean.Counts.Pass, clean.Counts.Borderline, clean.Counts.Fail, clean.Counts.Skipped))
+
+	const mistake = "heading-ccw"
+	d.step("running it again with a planted mistake: %s (the heading taken counter-clockwise)", mistake)
+	bad, err := d.run(cases, impl+" --mistake "+mistake, "python-"+mistake)
+	if err != nil {
+		return err
+	}
+	d.summary = append(d.summary, fmt.Sprintf("with the planted mistake %s it fails %d cases — caught", mistake, bad.Counts.Fail))
+	return d.probe(impl + " --mistake " + mistake)
+}
+
+// probe probes an implementation with a planted mistake and writes the
+// shrunk finding as a one-line corpus.
+func (d *demoRun) probe(impl string) error {
+	d.step("probing the planted mistake and shrinking what it finds")
+	proc := probe.NewCommand(impl, 5*time.Second)
+	f, err := probe.Find(proc, probe.Options{Ops: []string{"project"}, Checks: 1000, Seed: 1, ShrinkTime: 10 * time.Second})
+	proc.Close()
+	if err != nil {
+		return err
+	}
+	if f == nil {
+		d.summary = append(d.summary, "the prober did not find the planted mistake (unexpected)")
+		return nil
+	}
+	printFinding(d.w, f)
+	line, err := corpus.CaseLine(f.Case)
+	if err != nil {
+		return err
+	}
+	if err := d.write("probe-finding.jsonl", line); err != nil {
+		return err
+	}
+	d.summary = append(d.summary, fmt.Sprintf("the prober found it after %d case(s) and shrank it to %s: probe-finding.jsonl", f.Checks, describeCase(f.Case)))
+	return nil
+}
+
+// printSummary prints the summary and the files worth opening.
+func (d *demoRun) printSummary() {
+	fmt.Fprintf(d.w, "\nsummary (%.1f s):\n", time.Since(d.start).Seconds())
+	for _, s := range d.summary {
+		fmt.Fprintf(d.w, "  - %s\n", s)
+	}
+	fmt.Fprintf(d.w, "\n%d files in %s/, among them:\n", len(d.files), d.dir)
 	for _, f := range d.files {
 		keep := strings.HasSuffix(f, ".html") || strings.HasSuffix(f, "report.txt") || strings.HasSuffix(f, "timelines.txt") ||
 			strings.HasSuffix(f, "reference-junit.xml")
 		if keep {
-			fmt.Fprintf(w, "  %s\n", f)
+			fmt.Fprintf(d.w, "  %s\n", f)
 		}
 	}
-	return nil
 }
 
 // run feeds the corpus to an implementation and writes its text report and

@@ -1,7 +1,10 @@
 // Command viewspec is the executable specification of what a heading-up,
-// tilted navigation map shows: it answers the wire as the reference, prints
-// a camera's footprint and projections, and (in later commands) checks other
-// implementations against the reference.
+// tilted navigation map shows: it answers the wire as the reference; prints
+// a camera's footprint, projections, marker metrics, zoom and drive
+// timeline; makes, validates and checks fixture corpora; runs and probes
+// other implementations against the reference; gates zoom-rule changes;
+// draws pictures; and runs the whole job on the demo town. Each command is
+// thin wiring over the packages that own the work.
 package main
 
 import (

@@ -12,13 +12,18 @@ import (
 	"github.com/viewspec/viewspec/corpus"
 	"github.com/viewspec/viewspec/gate"
 	"github.com/viewspec/viewspec/render"
-	"github.com/viewspec/viewspec/timeline"
 )
 
+// rulesDiff is `rules diff`: its flags, and the steps of a run.
+type rulesDiff struct {
+	drives, failIf          []string
+	markersFile, deviceFile string
+	markdown                string
+	asJSON                  bool
+}
+
 func newRulesDiffCmd() *cobra.Command {
-	var drives, failIf []string
-	var markersFile, deviceFile, markdown string
-	var asJSON bool
+	rd := &rulesDiff{}
 	cmd := &cobra.Command{
 		Use:   "diff BASE NEW --drives DIR|FILE...",
 		Short: "Show what a zoom-rule change does to visibility on a set of drives, and gate on it",
@@ -36,93 +41,110 @@ Measures: ` + strings.Join(gate.MeasureNames(), ", ") + `.`,
   viewspec rules diff phone.yaml phone-new.yaml --drives drives/ --markers shops.csv \
       --fail-if 'lost_shown_pct > 5' --fail-if 'never_added > 0' --markdown review/rules.md`,
 		Args: cobra.ExactArgs(2),
-		RunE: func(cmd *cobra.Command, args []string) error {
-			base, err := readRules(args[0])
-			if err != nil {
-				return err
-			}
-			next, err := readRules(args[1])
-			if err != nil {
-				return err
-			}
-			if len(drives) == 0 {
-				return &exitError{2, fmt.Errorf("--drives DIR|FILE is required")}
-			}
-			ds, err := gate.ReadTrips(drives)
-			if err != nil {
-				return &exitError{2, err}
-			}
-			var ms []timeline.Marker
-			if markersFile != "" {
-				if ms, err = readMarkersFile(markersFile); err != nil {
-					return err
-				}
-			}
-			dev, err := readDevice(deviceFile)
-			if err != nil {
-				return err
-			}
-			var conds []gate.Condition
-			for _, s := range failIf {
-				c, err := gate.ParseCondition(s)
-				if err != nil {
-					return &exitError{2, fmt.Errorf("--fail-if %v", err)}
-				}
-				conds = append(conds, c)
-			}
-			rep, err := gate.CompareRules(ds, base, next, gate.Setup{Device: dev, Markers: ms})
-			if err != nil {
-				return &exitError{2, err}
-			}
-			gates := rep.Check(conds)
-			out := cmd.OutOrStdout()
-			baseName, newName := filepath.Base(args[0]), filepath.Base(args[1])
-			switch {
-			case asJSON:
-				if err := writeJSON(out, struct {
-					*gate.Comparison
-					Gates []gate.Verdict `json:"gates"`
-				}{rep, gates}); err != nil {
-					return err
-				}
-			default:
-				if err := rep.WriteText(out, baseName, newName, gates); err != nil {
-					return err
-				}
-			}
-			if markdown != "" {
-				plots, err := writeDiffPlots(markdown, rep, baseName, newName)
-				if err != nil {
-					return &exitError{2, err}
-				}
-				if err := corpus.WriteFileAtomic(markdown, func(w io.Writer) error {
-					return rep.WriteMarkdown(w, baseName, newName, gates, plots)
-				}); err != nil {
-					return &exitError{2, err}
-				}
-				if !asJSON {
-					fmt.Fprintf(out, "\nmarkdown report: %s\n", markdown)
-				}
-			}
-			var held []string
-			for _, g := range gates {
-				if g.Holds {
-					held = append(held, g.Condition)
-				}
-			}
-			if len(held) > 0 {
-				return &exitError{1, fmt.Errorf("gate failed: %s", strings.Join(held, "; "))}
-			}
-			return nil
-		},
+		RunE: func(cmd *cobra.Command, args []string) error { return rd.run(cmd.OutOrStdout(), args[0], args[1]) },
 	}
-	cmd.Flags().StringArrayVar(&drives, "drives", nil, "drive `FILE` or folder of drive files (repeatable)")
-	cmd.Flags().StringVar(&markersFile, "markers", "", "markers `FILE`: CSV id,lat,lon[,priority] or GeoJSON points")
-	cmd.Flags().StringVar(&deviceFile, "device", "", "device `FILE` (JSON object, SPEC §2); default: a phone, 390×844 px")
-	cmd.Flags().StringArrayVar(&failIf, "fail-if", nil, "gate condition `EXPR` on the total, e.g. 'lost_shown_pct > 5' (repeatable)")
-	cmd.Flags().StringVar(&markdown, "markdown", "", "also write a markdown report to `FILE`, with its plots beside it")
-	cmd.Flags().BoolVar(&asJSON, "json", false, "print the report as JSON")
+	cmd.Flags().StringArrayVar(&rd.drives, "drives", nil, "drive `FILE` or folder of drive files (repeatable)")
+	cmd.Flags().StringVar(&rd.markersFile, "markers", "", "markers `FILE`: CSV id,lat,lon[,priority] or GeoJSON points")
+	cmd.Flags().StringVar(&rd.deviceFile, "device", "", "device `FILE` (JSON object, SPEC §2); default: a phone, 390×844 px")
+	cmd.Flags().StringArrayVar(&rd.failIf, "fail-if", nil, "gate condition `EXPR` on the total, e.g. 'lost_shown_pct > 5' (repeatable)")
+	cmd.Flags().StringVar(&rd.markdown, "markdown", "", "also write a markdown report to `FILE`, with its plots beside it")
+	cmd.Flags().BoolVar(&rd.asJSON, "json", false, "print the report as JSON")
 	return cmd
+}
+
+// run compares the rule files basePath and newPath on the drives, writes
+// the report, and fails when a gate condition holds.
+func (rd *rulesDiff) run(out io.Writer, basePath, newPath string) error {
+	trips, setup, conds, err := rd.load()
+	if err != nil {
+		return err
+	}
+	base, err := readRules(basePath)
+	if err != nil {
+		return err
+	}
+	next, err := readRules(newPath)
+	if err != nil {
+		return err
+	}
+	rep, err := gate.CompareRules(trips, base, next, setup)
+	if err != nil {
+		return &exitError{2, err}
+	}
+	verdicts := rep.Check(conds)
+	if err := rd.write(out, rep, filepath.Base(basePath), filepath.Base(newPath), verdicts); err != nil {
+		return err
+	}
+	var held []string
+	for _, v := range verdicts {
+		if v.Holds {
+			held = append(held, v.Condition)
+		}
+	}
+	if len(held) > 0 {
+		return &exitError{1, fmt.Errorf("gate failed: %s", strings.Join(held, "; "))}
+	}
+	return nil
+}
+
+// load reads the drives, the markers, the device and the gate conditions.
+func (rd *rulesDiff) load() ([]gate.Trip, gate.Setup, []gate.Condition, error) {
+	var setup gate.Setup
+	if len(rd.drives) == 0 {
+		return nil, setup, nil, &exitError{2, fmt.Errorf("--drives DIR|FILE is required")}
+	}
+	trips, err := gate.ReadTrips(rd.drives)
+	if err != nil {
+		return nil, setup, nil, &exitError{2, err}
+	}
+	if rd.markersFile != "" {
+		if setup.Markers, err = readMarkersFile(rd.markersFile); err != nil {
+			return nil, setup, nil, err
+		}
+	}
+	if setup.Device, err = readDevice(rd.deviceFile); err != nil {
+		return nil, setup, nil, err
+	}
+	var conds []gate.Condition
+	for _, s := range rd.failIf {
+		c, err := gate.ParseCondition(s)
+		if err != nil {
+			return nil, setup, nil, &exitError{2, fmt.Errorf("--fail-if %v", err)}
+		}
+		conds = append(conds, c)
+	}
+	return trips, setup, conds, nil
+}
+
+// write prints the report (text or JSON) and writes the markdown report
+// with its plots when asked.
+func (rd *rulesDiff) write(out io.Writer, rep *gate.Comparison, baseName, newName string, verdicts []gate.Verdict) error {
+	if rd.asJSON {
+		if err := writeJSON(out, struct {
+			*gate.Comparison
+			Gates []gate.Verdict `json:"gates"`
+		}{rep, verdicts}); err != nil {
+			return err
+		}
+	} else if err := rep.WriteText(out, baseName, newName, verdicts); err != nil {
+		return err
+	}
+	if rd.markdown == "" {
+		return nil
+	}
+	plots, err := writeDiffPlots(rd.markdown, rep, baseName, newName)
+	if err != nil {
+		return &exitError{2, err}
+	}
+	if err := corpus.WriteFileAtomic(rd.markdown, func(w io.Writer) error {
+		return rep.WriteMarkdown(w, baseName, newName, verdicts, plots)
+	}); err != nil {
+		return &exitError{2, err}
+	}
+	if !rd.asJSON {
+		fmt.Fprintf(out, "\nmarkdown report: %s\n", rd.markdown)
+	}
+	return nil
 }
 
 // writeDiffPlots writes the report's plots beside the markdown file, as
