@@ -299,6 +299,8 @@ func Compare(c *corpus.Case, got json.RawMessage, p *Profile) (Status, []Diff) {
 		k.unproject(w, g)
 	case "footprint":
 		k.footprint(w, g)
+	case "horizon":
+		err = k.horizon(c.Expect, got)
 	case "metrics":
 		err = k.metrics(c.Expect, got)
 	case "zoom":
@@ -578,6 +580,16 @@ func (k *differ) metrics(want, got json.RawMessage) error {
 			k.optNum(path+".view_dist_m", "dist_m", k.p.DistM, rawNum(wm.ViewDistM), rawNum(gm.ViewDistM), nil)
 		}
 	}
+	return nil
+}
+
+func (k *differ) horizon(want, got json.RawMessage) error {
+	w, g, err := decodeBoth[wire.HorizonAnswer](want, got)
+	if err != nil {
+		return err
+	}
+	k.optNum("horizon_row_px", "pixel_px", k.p.PixelPx, w.HorizonRowPx, g.HorizonRowPx, nil)
+	k.optNum("far_row_px", "pixel_px", k.p.PixelPx, w.FarRowPx, g.FarRowPx, nil)
 	return nil
 }
 

@@ -16,7 +16,7 @@ import (
 
 // GenVersion names the generator; with the seed and count it fixes a
 // corpus byte for byte. It changes whenever generation changes.
-const GenVersion = "gen/1"
+const GenVersion = "gen/2"
 
 // Generate writes a corpus of about count cases (every family of every
 // selected op gets its share, at least one case) drawn from seed to w, and

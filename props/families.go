@@ -44,7 +44,8 @@ func Plans() []Plan {
 	return []Plan{
 		{"project", 0.25, withInvalid(cam, projectRequest)},
 		{"unproject", 0.12, withInvalid(cam, unprojectRequest)},
-		{"footprint", 0.20, withInvalid(cam, footprintRequest)},
+		{"footprint", 0.15, withInvalid(cam, footprintRequest)},
+		{"horizon", 0.05, withInvalid(cam, horizonRequest)},
 		{"metrics", 0.20, metricsFamilies()},
 		{"zoom", 0.11, zoomFamilies()},
 		{"timeline", 0.12, timelineFamilies()},
@@ -229,6 +230,8 @@ func unprojectRequest(rng Source, req *wire.Request) error {
 }
 
 func footprintRequest(Source, *wire.Request) error { return nil }
+
+func horizonRequest(Source, *wire.Request) error { return nil }
 
 // ---- metrics ----
 

@@ -10,7 +10,10 @@ import (
 
 // opFunc answers one op's request with an answer value (marshalled as a
 // JSON object) or an error, a *spec.FieldError naming the field at fault.
-type opFunc = wire.Answerer
+// When m is not nil it also fills in the margins the answer does not carry
+// (the horizon of unproject, the emptiness of footprint), from what it
+// computed for the answer.
+type opFunc func(req *wire.Request, m *wire.Margins) (any, error)
 
 // ops is the reference's table of ops, by wire name. It is filled in init
 // because hello's answer lists the table itself.
@@ -22,6 +25,7 @@ func init() {
 		"project":   evalProject,
 		"unproject": evalUnproject,
 		"footprint": evalFootprint,
+		"horizon":   evalHorizon,
 		"metrics":   evalMetrics,
 		"zoom":      evalZoom,
 		"timeline":  evalTimeline,
@@ -50,7 +54,7 @@ func Evaluate(req *wire.Request) (any, error) {
 		}
 		return nil, &wire.UnknownOpError{Op: req.Op, Known: Ops()}
 	}
-	return f(req)
+	return f(req, nil)
 }
 
 // Serve answers the JSON Lines requests on r as the reference, one answer
@@ -61,6 +65,6 @@ func Serve(r io.Reader, w io.Writer) error { return wire.Serve(r, w, Evaluate) }
 // one request line, as Serve would write it for line number lineNo.
 func AnswerLine(line []byte, lineNo int) []byte { return wire.AnswerLine(line, lineNo, Evaluate) }
 
-func evalHello(req *wire.Request) (any, error) {
+func evalHello(req *wire.Request, _ *wire.Margins) (any, error) {
 	return &wire.HelloAnswer{Head: wire.Head{ID: req.ID}, Spec: spec.Version, Ops: Ops()}, nil
 }

@@ -196,3 +196,34 @@ func TestEvaluateTimeline(t *testing.T) {
 		}
 	}
 }
+
+// op horizon answers the viewport's rows, and null for both at pitch 0
+// (SPEC §2). The 400 × 800 px, 60° camera at pitch 60° has its horizon on
+// row 0 and its far row on row 40 (hand-computed in
+// viewport/horizon_test.go).
+func TestEvaluateHorizon(t *testing.T) {
+	cam := `{"lat":10,"lon":20,"heading_deg":0,"pitch_deg":60,"zoom":15,"device":{"width_px":400,"height_px":800,"fov_y_deg":60}}`
+	ans, err := reference.Evaluate(decodeReq(t, `{"op":"horizon","id":1,"camera":`+cam+`}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	v, err := viewport.Prepare(viewport.Camera{LatDeg: 10, LonDeg: 20, PitchDeg: 60, Zoom: 15, Device: viewport.NewDevice(400, 800, 60)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	h := ans.(*wire.HorizonAnswer)
+	row, _ := v.HorizonRowPx()
+	if h.HorizonRowPx == nil || *h.HorizonRowPx != row || h.FarRowPx == nil || *h.FarRowPx != v.FarRowPx() {
+		t.Fatalf("horizon answer %+v, want rows %v and %v", h, row, v.FarRowPx())
+	}
+	if math.Abs(row) > 1e-9 || math.Abs(v.FarRowPx()-40) > 1e-9 {
+		t.Errorf("rows %v and %v, want 0 and 40", row, v.FarRowPx())
+	}
+	ans, err = reference.Evaluate(decodeReq(t, `{"op":"horizon","id":2,"camera":`+strings.Replace(cam, `"pitch_deg":60`, `"pitch_deg":0`, 1)+`}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if h := ans.(*wire.HorizonAnswer); h.HorizonRowPx != nil || h.FarRowPx != nil {
+		t.Errorf("at pitch 0: %+v, want both rows null", h)
+	}
+}

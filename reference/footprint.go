@@ -7,10 +7,17 @@ import (
 
 // evalFootprint answers op footprint (SPEC §2): the ground trapezoid's
 // vertices, area and visible radius; no vertices when it is empty.
-func evalFootprint(req *wire.Request) (any, error) {
+func evalFootprint(req *wire.Request, m *wire.Margins) (any, error) {
 	v, err := req.Camera.View("camera")
 	if err != nil {
 		return nil, err
+	}
+	if m != nil {
+		// The height of the band of rows that shows ground within the far
+		// limit: not positive when the footprint is empty.
+		_, top, _, bottom := v.ClearArea()
+		d := bottom - max(top, v.FarRowPx())
+		m.EmptyPx = &d
 	}
 	return footprintAnswer(req, &v), nil
 }

@@ -16,7 +16,7 @@ import (
 // the user and the route, how far along and how soon, its side with the
 // decision margin side_margin_m, and with a camera its distance to the
 // view.
-func evalMetrics(req *wire.Request) (any, error) {
+func evalMetrics(req *wire.Request, m *wire.Margins) (any, error) {
 	r, err := req.Route.Value("route")
 	if err != nil {
 		return nil, err

@@ -8,7 +8,7 @@ import (
 // evalProject answers op project (SPEC §2): each point's pixel, depth and
 // in-view answer, with its decision margin margin_px; null for a point at
 // or behind the camera plane.
-func evalProject(req *wire.Request) (any, error) {
+func evalProject(req *wire.Request, m *wire.Margins) (any, error) {
 	v, err := req.Camera.View("camera")
 	if err != nil {
 		return nil, err

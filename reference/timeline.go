@@ -8,7 +8,7 @@ import (
 // evalTimeline answers op timeline (SPEC §5): for each marker, when it was
 // first visible and first shown, for how long, and its bucket, with the
 // decision margins bucket_margin_s and first_shown_margin_px.
-func evalTimeline(req *wire.Request) (any, error) {
+func evalTimeline(req *wire.Request, m *wire.Margins) (any, error) {
 	d, err := req.Drive()
 	if err != nil {
 		return nil, err

@@ -10,7 +10,7 @@ import (
 
 // evalZoom answers op zoom (SPEC §3): the zoom and pitch the rule set gives
 // at each sample.
-func evalZoom(req *wire.Request) (any, error) {
+func evalZoom(req *wire.Request, m *wire.Margins) (any, error) {
 	rs, err := req.Rules.Value("rules")
 	if err != nil {
 		return nil, err

@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"os"
 	"os/exec"
 	"strconv"
 	"strings"
@@ -14,6 +13,8 @@ import (
 
 	"github.com/golang/geo/s2"
 	"github.com/paulmach/orb"
+
+	"github.com/viewspec/viewspec/internal/testtool"
 )
 
 // Tolerance tiers for geodesic lengths, named for what they bound.
@@ -130,13 +131,7 @@ func geodPairs() []geodPair {
 // geodSolveBatch runs GeographicLib's GeodSolve once on all pairs and returns (azi1, azi2, s12) per pair.
 func geodSolveBatch(t *testing.T, pairs []geodPair) [][3]float64 {
 	t.Helper()
-	bin, err := exec.LookPath("GeodSolve")
-	if err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatal("GeodSolve not found: CI must install Debian package geographiclib-tools")
-		}
-		t.Skip("install Debian package geographiclib-tools")
-	}
+	bin := testtool.Need(t, "GeodSolve", "geographiclib-tools")
 	var in bytes.Buffer
 	// Plain decimals only: GeodSolve reads "1e-07" as a DMS string with a hemisphere letter and
 	// answers for a different point. 'f' with precision -1 round-trips without an exponent.

@@ -17,6 +17,7 @@ var opFields = map[string][]string{
 	"project":   {"camera", "points"},
 	"unproject": {"camera", "pixels"},
 	"footprint": {"camera"},
+	"horizon":   {"camera"},
 	"metrics":   {"route", "user", "markers", "camera"},
 	"zoom":      {"rules", "samples"},
 	"timeline": {"route", "start_along_m", "user", "device", "rules", "markers",

@@ -15,7 +15,7 @@ func ExampleServe() {
 `)
 	reference.Serve(in, os.Stdout)
 	// Output:
-	// {"id":1,"spec":"viewspec/1","ops":["footprint","hello","metrics","project","timeline","unproject","zoom"]}
+	// {"id":1,"spec":"viewspec/1","ops":["footprint","hello","horizon","metrics","project","timeline","unproject","zoom"]}
 	// {"id":2,"screen":[{"x":160,"y":128,"depth":128,"in_view":true,"margin_px":96}]}
 	// {"id":3,"error":{"code":"invalid_value","message":"line 3: camera.pitch_deg = 90: pitch must be within [0, 90)"}}
 }

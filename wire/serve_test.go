@@ -190,6 +190,8 @@ func FuzzServe(f *testing.F) {
 	f.Add(`{"op":"unproject","camera":` + camJSON + `,"pixels":[{"x":1,"y":2},null]}`)
 	f.Add(`{"op":"footprint","camera":` + camJSON + `}`)
 	f.Add(`{"op":"footprint","camera":{"lat":1e400}}`)
+	f.Add(`{"op":"horizon","id":1,"camera":` + camJSON + `}`)
+	f.Add(`{"op":"horizon","camera":{"pitch_deg":"x"}}`)
 	f.Add(`{"op":"project","camera":null,"points":[null]}`)
 	f.Add(`{"op":"metrics","route":{"points":[{"lat":0,"lon":0},{"lat":0,"lon":0.01}],"speed_mps":[10]},"user":{"lat":0,"lon":0.002},"markers":[{"id":"a","lat":0.001,"lon":0.005}],"camera":` + camJSON + `}`)
 	f.Add(`{"op":"metrics","route":{"points":[{"lat":0,"lon":0},{"lat":0,"lon":0}],"speed_mps":"fast"},"user":null,"markers":[{"id":1}]}`)

@@ -231,3 +231,13 @@ type MetricsAnswer struct {
 	Head
 	Markers []MarkerMetrics `json:"markers"`
 }
+
+// HorizonAnswer answers op horizon: the screen row (y, pixels, down) of
+// the horizon, above which no ground is seen, and of the far limit, above
+// which ground lies beyond k·f; each null at pitch 0, where neither row
+// exists.
+type HorizonAnswer struct {
+	Head
+	HorizonRowPx *float64 `json:"horizon_row_px"`
+	FarRowPx     *float64 `json:"far_row_px"`
+}
