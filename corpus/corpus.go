@@ -31,15 +31,15 @@ type Case struct {
 	Margins json.RawMessage `json:"margins"`
 }
 
-// CorpusError is an unusable corpus or answer file: the file, the line and
+// ReadError is an unusable corpus or answer file: the file, the line and
 // what was wrong.
-type CorpusError struct {
+type ReadError struct {
 	File string
 	Line int
 	Msg  string
 }
 
-func (e *CorpusError) Error() string {
+func (e *ReadError) Error() string {
 	if e.Line > 0 {
 		return fmt.Sprintf("%s:%d: %s", e.File, e.Line, e.Msg)
 	}
@@ -65,26 +65,26 @@ func ReadCorpus(name string, r io.Reader) ([]Case, error) {
 		var c Case
 		if err := json.Unmarshal(b, &c); err != nil {
 			_, msg := wire.DecodeError(err)
-			return nil, &CorpusError{name, line, "not a corpus line: " + msg}
+			return nil, &ReadError{name, line, "not a corpus line: " + msg}
 		}
 		switch {
 		case c.ID == "":
-			return nil, &CorpusError{name, line, "id: missing"}
+			return nil, &ReadError{name, line, "id: missing"}
 		case c.Op == "":
-			return nil, &CorpusError{name, line, "op: missing"}
+			return nil, &ReadError{name, line, "op: missing"}
 		case len(c.Request) == 0 || c.Request[0] != '{':
-			return nil, &CorpusError{name, line, "request: missing or not an object"}
+			return nil, &ReadError{name, line, "request: missing or not an object"}
 		case len(c.Expect) == 0 || c.Expect[0] != '{':
-			return nil, &CorpusError{name, line, "expect: missing or not an object"}
+			return nil, &ReadError{name, line, "expect: missing or not an object"}
 		}
 		if j, dup := seen[c.ID]; dup {
-			return nil, &CorpusError{name, line, fmt.Sprintf("id %q repeats line %d", c.ID, j)}
+			return nil, &ReadError{name, line, fmt.Sprintf("id %q repeats line %d", c.ID, j)}
 		}
 		seen[c.ID] = line
 		cases = append(cases, c)
 	}
 	if err := sc.Err(); err != nil {
-		return nil, &CorpusError{name, 0, err.Error()}
+		return nil, &ReadError{name, 0, err.Error()}
 	}
 	return cases, nil
 }
@@ -116,7 +116,7 @@ func ReadAnswers(name string, r io.Reader) (answers []Answer, bad []string, err 
 		answers = append(answers, Answer{ID: id, Raw: append(json.RawMessage(nil), b...), Line: line})
 	}
 	if err := sc.Err(); err != nil {
-		return nil, nil, &CorpusError{name, 0, err.Error()}
+		return nil, nil, &ReadError{name, 0, err.Error()}
 	}
 	return answers, bad, nil
 }

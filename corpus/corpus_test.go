@@ -71,7 +71,7 @@ func TestGenerateCoversFamilies(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	st := corpus.CorpusStats(cases)
+	st := corpus.StatsOf(cases)
 	for _, f := range props.Families() {
 		if st.ByFamily[f] == 0 {
 			t.Errorf("family %s is missing", f)
@@ -88,9 +88,9 @@ func FuzzReadCorpus(f *testing.F) {
 	f.Add(`not json`)
 	f.Fuzz(func(t *testing.T, data string) {
 		if _, err := corpus.ReadCorpus("fuzz.jsonl", strings.NewReader(data)); err != nil {
-			var ce *corpus.CorpusError
+			var ce *corpus.ReadError
 			if !errors.As(err, &ce) || !strings.HasPrefix(err.Error(), "fuzz.jsonl") {
-				t.Fatalf("error %v is not a CorpusError naming the file", err)
+				t.Fatalf("error %v is not a ReadError naming the file", err)
 			}
 		}
 		answers, bad, err := corpus.ReadAnswers("fuzz.jsonl", strings.NewReader(data))

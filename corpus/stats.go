@@ -7,8 +7,8 @@ type Stats struct {
 	ByFamily map[string]int `json:"by_family"`
 }
 
-// CorpusStats counts cases.
-func CorpusStats(cases []Case) Stats {
+// StatsOf counts cases.
+func StatsOf(cases []Case) Stats {
 	s := Stats{Cases: len(cases), ByOp: map[string]int{}, ByFamily: map[string]int{}}
 	for _, c := range cases {
 		s.ByOp[c.Op]++

@@ -23,12 +23,14 @@ import (
 )
 
 // FileError is a bad input file: the file's name, where in it (a line, a
-// feature index or both) and what was wrong with which field.
+// feature index or both) and what was wrong with which field: the value
+// as written, when there is one, and why.
 type FileError struct {
 	File    string
 	Line    int // 1-based; 0 when unknown
 	Feature int // feature index in a GeoJSON collection; −1 when not applicable
 	Field   string
+	Value   string // the offending value as written; empty when there is none
 	Msg     string
 }
 
@@ -44,12 +46,11 @@ func (e *FileError) Error() string {
 	if e.Field != "" {
 		b.WriteString(": " + e.Field)
 	}
+	if e.Value != "" {
+		b.WriteString(" = " + e.Value)
+	}
 	if e.Msg != "" {
-		if strings.HasPrefix(e.Msg, "= ") {
-			b.WriteString(" " + e.Msg)
-		} else {
-			b.WriteString(": " + e.Msg)
-		}
+		b.WriteString(": " + e.Msg)
 	}
 	return b.String()
 }
@@ -391,7 +392,7 @@ func readGeoJSONMarkers(name string, data []byte) ([]timeline.Marker, error) {
 			m.ID = id
 		case float64:
 			if id != math.Trunc(id) || math.Abs(id) > 1<<53 {
-				return nil, &FileError{File: name, Feature: i, Field: "properties.id", Msg: "= " + spec.FormatNumber(id) + ": a numeric id must be a whole number"}
+				return nil, &FileError{File: name, Feature: i, Field: "properties.id", Value: spec.FormatNumber(id), Msg: "a numeric id must be a whole number"}
 			}
 			m.ID = strconv.FormatFloat(id, 'f', -1, 64)
 		case nil:

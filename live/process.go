@@ -11,6 +11,7 @@ import (
 	"os/exec"
 	"strings"
 	"sync"
+	"sync/atomic"
 	"syscall"
 	"time"
 
@@ -42,7 +43,13 @@ type Process struct {
 	out    *bufio.Reader
 	tail   *tail
 	exited chan error
+	gone   atomic.Bool // the process has exited (its helpers may live on)
 }
+
+// exitGrace is how long output is still read after the process exited: a
+// helper it left behind may hold its stdout open, and nothing it writes
+// counts.
+const exitGrace = 200 * time.Millisecond
 
 // Start runs command with sh -c in a process group of its own; timeout
 // bounds every wait for an answer (DefaultTimeout when not positive).
@@ -84,7 +91,12 @@ func Start(command string, timeout time.Duration) (*Process, error) {
 	go p.tail.fill(errR)
 	p.cmd, p.stdin, p.stdout, p.out = cmd, stdin, outR, bufio.NewReaderSize(outR, 64<<10)
 	p.exited = make(chan error, 1)
-	go func() { p.exited <- cmd.Wait() }()
+	go func() {
+		err := cmd.Wait()
+		p.gone.Store(true)
+		p.stdout.SetReadDeadline(time.Now().Add(exitGrace))
+		p.exited <- err
+	}()
 	return p, nil
 }
 
@@ -139,12 +151,18 @@ func (p *Process) Send(lines func(yield func([]byte) bool)) error {
 
 // Next returns the next non-blank answer line, waiting at most the
 // timeout: ErrHung when none came, io.EOF when the process closed its
-// stdout, ErrLineTooLong (the line skipped) for a line over MaxLineBytes.
+// stdout or exited (whatever a helper it left behind still holds open),
+// ErrLineTooLong (the line skipped) for a line over MaxLineBytes.
 func (p *Process) Next() ([]byte, error) {
 	p.stdout.SetReadDeadline(time.Now().Add(p.Timeout))
+	if p.gone.Load() {
+		p.stdout.SetReadDeadline(time.Now().Add(exitGrace))
+	}
 	for {
 		l, err := p.readLine()
 		switch {
+		case errors.Is(err, os.ErrDeadlineExceeded) && p.gone.Load():
+			return nil, io.EOF // exited; a helper holds stdout open
 		case errors.Is(err, os.ErrDeadlineExceeded):
 			return nil, ErrHung
 		case err != nil:

@@ -113,7 +113,7 @@ func bucketCounts(rec *Recording) [4]int {
 // DriveHTML returns a self-contained HTML page (UTF-8; every script and
 // style inline, nothing fetched) of the drive d with markers: a map, north
 // up in the frame of the drive's start, of the route, the markers coloured
-// by their bucket (from viewport.Timeline), the footprint and the user, with
+// by their bucket (from timeline.Compute), the footprint and the user, with
 // a slider (input#time, one step a tick) that moves the user and the
 // footprint and highlights the markers shown at that tick, the readouts
 // span#time-s and span#shown-count; zoom and pitch over time; and a table

@@ -40,7 +40,7 @@ type Recording struct {
 	Markers []timeline.Marker
 	// Ticks holds ticks 0 … HorizonS/TickS.
 	Ticks []TickFrame
-	// Timeline is viewport.Timeline's answer, one per marker in order.
+	// Timeline is timeline.Compute's answer, one per marker in order.
 	Timeline []timeline.Result
 }
 
@@ -53,7 +53,7 @@ func (r *Recording) Buckets() map[string]timeline.Bucket {
 	return out
 }
 
-// RecordDrive runs viewport.Timeline on d and markers and records every
+// RecordDrive runs timeline.Compute on d and markers and records every
 // tick: the user's place, the camera's heading, zoom and pitch, the
 // footprint and the ids of the markers shown. d is not changed (a copy gets
 // the recording hook, which calls d.OnTick too when it is set). Errors are

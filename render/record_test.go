@@ -11,7 +11,7 @@ import (
 	"github.com/viewspec/viewspec/viewport"
 )
 
-// timelineTicks runs viewport.Timeline with its own hook and returns, per
+// timelineTicks runs timeline.Compute with its own hook and returns, per
 // tick, the ids shown (in slot order) and the camera's zoom and pitch: the
 // reference the recordings are checked against.
 func timelineTicks(t testing.TB, d timeline.Drive, ms []timeline.Marker) (shown [][]string, zoom, pitch []float64, res []timeline.Result) {
@@ -60,7 +60,7 @@ func TestRenderRecordDriveMatchesTimeline(t *testing.T) {
 				t.Fatalf("%d ticks recorded, the timeline ran %d", len(rec.Ticks), len(wantShown))
 			}
 			if !slices.Equal(rec.Timeline, wantRes) {
-				t.Errorf("recorded timeline answer differs from viewport.Timeline's")
+				t.Errorf("recorded timeline answer differs from timeline.Compute's")
 			}
 			firstShown := map[string]int{}
 			shownTicks := map[string]int{}

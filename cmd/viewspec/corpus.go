@@ -128,7 +128,7 @@ func newStatsCmd() *cobra.Command {
 			if err != nil {
 				return err
 			}
-			s := corpus.CorpusStats(cases)
+			s := corpus.StatsOf(cases)
 			out := cmd.OutOrStdout()
 			if asJSON {
 				return writeJSON(out, s)
