@@ -12,7 +12,6 @@ require (
 	github.com/santhosh-tekuri/jsonschema/v6 v6.0.3
 	github.com/schollz/progressbar/v3 v3.19.1
 	github.com/spf13/cobra v1.10.2
-	github.com/stretchr/testify v1.12.1
 	github.com/valyala/fastjson v1.6.10
 	go.yaml.in/yaml/v3 v3.0.6
 	golang.org/x/term v0.44.0
@@ -25,6 +24,7 @@ require (
 	github.com/mitchellh/colorstring v0.0.0-20190213212951-d06e56a500db // indirect
 	github.com/rivo/uniseg v0.4.7 // indirect
 	github.com/spf13/pflag v1.0.9 // indirect
+	github.com/stretchr/testify v1.12.1 // indirect
 	go.mongodb.org/mongo-driver/v2 v2.5.0 // indirect
 	golang.org/x/sys v0.46.0 // indirect
 	golang.org/x/text v0.23.0 // indirect

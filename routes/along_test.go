@@ -1,12 +1,12 @@
 package routes
 
 import (
+	"fmt"
 	"math"
+	"slices"
 	"testing"
 
 	"github.com/paulmach/orb"
-	"github.com/stretchr/testify/assert"
-	"github.com/stretchr/testify/require"
 )
 
 // equatorRoute lays segments of the given lengths eastwards along the equator from lon 0. Along the
@@ -21,7 +21,9 @@ func equatorRoute(t *testing.T, lengthsM, speeds []float64) *Route {
 		pts = append(pts, orb.Point{lon, 0})
 	}
 	r, err := New(pts, speeds)
-	require.NoError(t, err)
+	if err != nil {
+		t.Fatalf("New(%v, %v): %v", pts, speeds, err)
+	}
 	return r
 }
 
@@ -38,11 +40,19 @@ func TestSegmentAtVertexAndEndRules(t *testing.T) {
 		{math.NaN(), 0}, {math.Inf(1), 2}, {math.Inf(-1), 0},
 	}
 	for _, c := range cases {
-		assert.Equal(t, c.want, r.SegmentAt(c.along), "SegmentAt(%v)", c.along)
+		if got := r.SegmentAt(c.along); got != c.want {
+			t.Errorf("SegmentAt(%v) = %d, want %d", c.along, got, c.want)
+		}
 	}
-	assert.Equal(t, 20.0, r.SpeedMpsAt(s1))
-	assert.Equal(t, 5.0, r.SpeedMpsAt(r.LengthM()))
-	assert.Equal(t, 90.0, r.HeadingDegAt(s1))
+	if got := r.SpeedMpsAt(s1); got != 20 {
+		t.Errorf("SpeedMpsAt(%v) = %v, want 20", s1, got)
+	}
+	if got := r.SpeedMpsAt(r.LengthM()); got != 5 {
+		t.Errorf("SpeedMpsAt(LengthM() %v) = %v, want 5", r.LengthM(), got)
+	}
+	if got := r.HeadingDegAt(s1); got != 90 {
+		t.Errorf("HeadingDegAt(%v) = %v, want 90", s1, got)
+	}
 }
 
 // TestPointAtIsSlerpByAngle: the point at along-route position p lies at the fraction
@@ -50,36 +60,50 @@ func TestSegmentAtVertexAndEndRules(t *testing.T) {
 // two differ: the arc's angle is linear in latitude, the geodesic length is not.
 func TestPointAtIsSlerpByAngle(t *testing.T) {
 	r, err := New([]orb.Point{{5, 0}, {5, 60}}, []float64{10})
-	require.NoError(t, err)
+	if err != nil {
+		t.Fatalf("New(meridian 0° to 60°): %v", err)
+	}
 	L := r.LengthM()
 	for _, f := range []float64{0, 0.1, 0.25, 0.5, 0.9, 1} {
 		got := r.PointAt(f * L)
-		assert.InDelta(t, 60*f, got[1], 1e-12, "PointAt(%v·L) latitude", f)
-		assert.InDelta(t, 5, got[0], 1e-12, "PointAt(%v·L) longitude", f)
+		near(t, fmt.Sprintf("PointAt(%v·L) latitude", f), got[1], 60*f, 1e-12)
+		near(t, fmt.Sprintf("PointAt(%v·L) longitude", f), got[0], 5, 1e-12)
 	}
 	// By geodesic distance, half the length would be 0.14° further south (the meridian's radius
 	// of curvature grows with latitude): this is what the by-angle rule is not.
 	half := r.PointAt(L / 2)
-	assert.Greater(t, math.Abs(GeodesicDistM(orb.Point{5, 0}, half)-L/2), 1000.0)
+	if d := math.Abs(GeodesicDistM(orb.Point{5, 0}, half) - L/2); !(d > 1000) {
+		t.Errorf("GeodesicDistM(start, PointAt(L/2) = %v) differs from L/2 by %v m, want > 1000 m", half, d)
+	}
 
 	// Vertices come back exactly as given; positions are clamped.
 	pts := []orb.Point{{179.9, -10}, {-179.95, -10.05}, {-179.8, -10.2}}
 	r, err = New(pts, []float64{10})
-	require.NoError(t, err)
-	assert.Equal(t, pts[1], r.PointAt(r.Segment(1).StartM))
-	assert.Equal(t, pts[2], r.PointAt(r.LengthM()+100))
-	assert.Equal(t, pts[0], r.PointAt(math.NaN()))
+	if err != nil {
+		t.Fatalf("New(%v): %v", pts, err)
+	}
+	if got := r.PointAt(r.Segment(1).StartM); got != pts[1] {
+		t.Errorf("PointAt(Segment(1).StartM) = %v, want vertex %v exactly", got, pts[1])
+	}
+	if got := r.PointAt(r.LengthM() + 100); got != pts[2] {
+		t.Errorf("PointAt(LengthM()+100) = %v, want the last vertex %v exactly", got, pts[2])
+	}
+	if got := r.PointAt(math.NaN()); got != pts[0] {
+		t.Errorf("PointAt(NaN) = %v, want the first vertex %v exactly", got, pts[0])
+	}
 	// Across the antimeridian the interpolated longitude stays in [-180, 180].
 	mid := r.PointAt(r.Segment(0).LengthM * 0.3)
-	assert.True(t, mid[0] > 179.9 || mid[0] < -179.95, "PointAt across the antimeridian = %v", mid)
+	if !(mid[0] > 179.9 || mid[0] < -179.95) {
+		t.Errorf("PointAt across the antimeridian = %v, want longitude in (179.9, 180] or [-180, -179.95)", mid)
+	}
 }
 
 func TestTimeBetween(t *testing.T) {
 	r := equatorRoute(t, []float64{100, 200, 50}, []float64{10, 20, 5})
-	assert.InDelta(t, 10+10+10, r.DurationS(), 1e-9)
-	assert.InDelta(t, 5+5, r.TimeBetweenS(50, 200), 1e-9) // 50 m at 10 m/s, then 100 m at 20 m/s
-	assert.InDelta(t, -(5 + 5), r.TimeBetweenS(200, 50), 1e-9)
-	assert.InDelta(t, 30, r.TimeBetweenS(-10, 1e9), 1e-9) // clamped to the route
+	near(t, "DurationS()", r.DurationS(), 10+10+10, 1e-9)
+	near(t, "TimeBetweenS(50, 200)", r.TimeBetweenS(50, 200), 5+5, 1e-9) // 50 m at 10 m/s, then 100 m at 20 m/s
+	near(t, "TimeBetweenS(200, 50)", r.TimeBetweenS(200, 50), -(5 + 5), 1e-9)
+	near(t, "TimeBetweenS(-10, 1e9)", r.TimeBetweenS(-10, 1e9), 30, 1e-9) // clamped to the route
 }
 
 // TestAlongAfterCrossesSegmentsExactly: motion at each segment's own speed, the time left over at a
@@ -106,18 +130,20 @@ func TestAlongAfterCrossesSegmentsExactly(t *testing.T) {
 	}
 	for _, c := range cases {
 		got := r.AlongAfterS(c.start, c.t)
-		assert.InDelta(t, c.want, got, 1e-9, "AlongAfterS(%v, %v)", c.start, c.t)
+		near(t, fmt.Sprintf("AlongAfterS(%v, %v)", c.start, c.t), got, c.want, 1e-9)
 	}
 	// A tick loop accumulates no error: position k·tick is the same as one jump of k·tick.
 	pos := 0.0
 	for k := 1; k <= 120; k++ {
 		pos = r.AlongAfterS(0, float64(k)*0.25)
 		if k*25 <= 1000 { // first segment: 10 m/s
-			assert.InDelta(t, float64(k)*2.5, pos, 1e-9)
+			near(t, fmt.Sprintf("AlongAfterS(0, %v)", float64(k)*0.25), pos, float64(k)*2.5, 1e-9)
 		}
 	}
-	assert.InDelta(t, 350, pos, 1e-9)
-	assert.Equal(t, 0.0, r.AlongAfterS(0, math.NaN()))
+	near(t, "AlongAfterS(0, 30)", pos, 350, 1e-9)
+	if got := r.AlongAfterS(0, math.NaN()); got != 0 {
+		t.Errorf("AlongAfterS(0, NaN) = %v, want 0", got)
+	}
 }
 
 // TestTurnsWrapAtNorth: turn sizes are measured the short way round, across 0/360.
@@ -128,20 +154,35 @@ func TestTurnsWrapAtNorth(t *testing.T) {
 	p3 := offsetPoint(p2, 100, 500) // ~100: a 90° turn
 	p4 := offsetPoint(p3, 280, 300) // ~280: a U-turn (180°)
 	p5 := offsetPoint(p4, 275, 300) // ~5° more
-	r, err := New([]orb.Point{p0, p1, p2, p3, p4, p5}, []float64{10})
-	require.NoError(t, err)
+	pts := []orb.Point{p0, p1, p2, p3, p4, p5}
+	r, err := New(pts, []float64{10})
+	if err != nil {
+		t.Fatalf("New(%v): %v", pts, err)
+	}
 	h := func(i int) float64 { return r.Segment(i).HeadingDeg }
-	assert.InDelta(t, 20, HeadingChangeDeg(h(0), h(1)), 0.5)
-	assert.InDelta(t, 90, HeadingChangeDeg(h(1), h(2)), 0.5)
-	assert.InDelta(t, 180, HeadingChangeDeg(h(2), h(3)), 0.5)
+	for i, want := range []float64{20, 90, 180} {
+		near(t, fmt.Sprintf("HeadingChangeDeg(%v, %v) at vertex %d", h(i), h(i+1), i+1), HeadingChangeDeg(h(i), h(i+1)), want, 0.5)
+	}
 
 	v := func(i int) float64 { return r.Segment(i).StartM }
-	assert.Equal(t, []float64{v(1), v(2), v(3), v(4)}, r.Turns(0))
-	assert.Equal(t, []float64{v(1), v(2), v(3)}, r.Turns(15))
-	assert.Equal(t, []float64{v(2), v(3)}, r.Turns(30))
-	assert.Equal(t, []float64{v(3)}, r.Turns(170))
-	assert.Empty(t, r.Turns(181))
-	assert.Empty(t, r.Turns(math.NaN()))
+	for _, c := range []struct {
+		minDeg float64
+		want   []float64
+	}{
+		{0, []float64{v(1), v(2), v(3), v(4)}},
+		{15, []float64{v(1), v(2), v(3)}},
+		{30, []float64{v(2), v(3)}},
+		{170, []float64{v(3)}},
+	} {
+		if got := r.Turns(c.minDeg); !slices.Equal(got, c.want) {
+			t.Errorf("Turns(%v) = %v, want %v", c.minDeg, got, c.want)
+		}
+	}
+	for _, minDeg := range []float64{181, math.NaN()} {
+		if got := r.Turns(minDeg); len(got) != 0 {
+			t.Errorf("Turns(%v) = %v, want none", minDeg, got)
+		}
+	}
 
 	cases := []struct {
 		name   string
@@ -156,7 +197,8 @@ func TestTurnsWrapAtNorth(t *testing.T) {
 		{"just under a U-turn", [2]float64{0, 180.5}, 179.5},
 	}
 	for _, c := range cases {
-		assert.InDelta(t, c.change, HeadingChangeDeg(c.heads[0], c.heads[1]), 1e-9, c.name)
+		near(t, fmt.Sprintf("%s: HeadingChangeDeg(%v, %v)", c.name, c.heads[0], c.heads[1]),
+			HeadingChangeDeg(c.heads[0], c.heads[1]), c.change, 1e-9)
 	}
 }
 
@@ -177,11 +219,14 @@ func TestNextTurnIsStrictlyAhead(t *testing.T) {
 	}
 	for _, c := range cases {
 		d, ok := NextTurnDistM(turns, c.along)
-		assert.Equal(t, c.ok, ok, "NextTurnDistM(%v)", c.along)
-		assert.InDelta(t, c.dist, d, 1e-12, "NextTurnDistM(%v)", c.along)
+		if ok != c.ok {
+			t.Errorf("NextTurnDistM(%v, %v) ok = %v, want %v", turns, c.along, ok, c.ok)
+		}
+		near(t, fmt.Sprintf("NextTurnDistM(%v, %v) distance", turns, c.along), d, c.dist, 1e-12)
 	}
-	_, ok := NextTurnDistM(nil, 0)
-	assert.False(t, ok)
+	if d, ok := NextTurnDistM(nil, 0); ok {
+		t.Errorf("NextTurnDistM(nil, 0) = %v, true; want ok false", d)
+	}
 }
 
 func TestAlongHelpersDoNotAllocate(t *testing.T) {
@@ -196,5 +241,7 @@ func TestAlongHelpersDoNotAllocate(t *testing.T) {
 		_, _ = NextTurnDistM(turns, 120)
 		_ = r.PlaceAt(120)
 	})
-	assert.Zero(t, n)
+	if n != 0 {
+		t.Errorf("the along-route helpers allocate %v times a run, want 0", n)
+	}
 }

@@ -1,14 +1,14 @@
 package routes
 
 import (
+	"fmt"
 	"math"
 	"math/rand/v2"
+	"reflect"
 	"testing"
 
 	"github.com/golang/geo/s2"
 	"github.com/paulmach/orb"
-	"github.com/stretchr/testify/assert"
-	"github.com/stretchr/testify/require"
 )
 
 // degPerM converts metres on the mean-radius sphere (the scale of the tie tolerance) to degrees of
@@ -25,7 +25,9 @@ func mustRoute(t *testing.T, pts []orb.Point, speeds ...float64) *Route {
 		speeds = []float64{10}
 	}
 	r, err := New(pts, speeds)
-	require.NoError(t, err)
+	if err != nil {
+		t.Fatalf("New(%v, %v): %v", pts, speeds, err)
+	}
 	return r
 }
 
@@ -34,11 +36,17 @@ func checkAgreesWithScan(t *testing.T, r *Route, user Place, q orb.Point) Metric
 	t.Helper()
 	m := r.Metrics(user, q)
 	s := r.metricsScan(user, q)
-	assert.Equal(t, s.Closest.Segment, m.Closest.Segment, "segment: index vs scan for %v", q)
-	assert.InDelta(t, s.Closest.AlongM, m.Closest.AlongM, 1e-6, "along: index vs scan for %v", q)
-	assert.InDelta(t, s.RouteDistM, m.RouteDistM, 1e-6, "route_dist: index vs scan for %v", q)
-	assert.Equal(t, s.Ahead, m.Ahead, "ahead: index vs scan for %v", q)
-	assert.Equal(t, s.Side, m.Side, "side: index vs scan for %v", q)
+	if m.Closest.Segment != s.Closest.Segment {
+		t.Errorf("Metrics(user, %v).Closest.Segment = %d, want %d (metricsScan)", q, m.Closest.Segment, s.Closest.Segment)
+	}
+	near(t, fmt.Sprintf("Metrics(user, %v).Closest.AlongM (vs metricsScan)", q), m.Closest.AlongM, s.Closest.AlongM, 1e-6)
+	near(t, fmt.Sprintf("Metrics(user, %v).RouteDistM (vs metricsScan)", q), m.RouteDistM, s.RouteDistM, 1e-6)
+	if m.Ahead != s.Ahead {
+		t.Errorf("Metrics(user, %v).Ahead = %v, want %v (metricsScan)", q, m.Ahead, s.Ahead)
+	}
+	if m.Side != s.Side {
+		t.Errorf("Metrics(user, %v).Side = %v, want %v (metricsScan)", q, m.Side, s.Side)
+	}
 	return m
 }
 
@@ -60,10 +68,16 @@ func TestTieBetweenTwoStretches(t *testing.T) {
 	}
 	for _, c := range cases {
 		q := orb.Point{0.005, c.northM * degPerM}
-		assert.Equal(t, c.wantSeg, r.Snap(q).Segment, "%s: Snap", c.name)
-		assert.Equal(t, c.wantSeg, r.snapScan(q).Segment, "%s: snapScan", c.name)
+		if got := r.Snap(q).Segment; got != c.wantSeg {
+			t.Errorf("%s: Snap(%v).Segment = %d, want %d", c.name, q, got, c.wantSeg)
+		}
+		if got := r.snapScan(q).Segment; got != c.wantSeg {
+			t.Errorf("%s: snapScan(%v).Segment = %d, want %d", c.name, q, got, c.wantSeg)
+		}
 		m := checkAgreesWithScan(t, r, start, q)
-		assert.Equal(t, c.wantSeg, m.Closest.Segment, "%s: Metrics", c.name)
+		if m.Closest.Segment != c.wantSeg {
+			t.Errorf("%s: Metrics(start, %v).Closest.Segment = %d, want %d", c.name, q, m.Closest.Segment, c.wantSeg)
+		}
 	}
 }
 
@@ -83,12 +97,20 @@ func TestTieBetweenEndsOfOneSegment(t *testing.T) {
 	for _, c := range cases {
 		q := orb.Point{-175 - c.westM*degPerM, 0}
 		p := r.Snap(q)
-		assert.Equal(t, c.wantAlong, p.AlongM, "%s: Snap(%v)", c.name, q)
-		assert.Equal(t, c.wantAlong, r.snapScan(q).AlongM, "%s: snapScan(%v)", c.name, q)
+		if p.AlongM != c.wantAlong {
+			t.Errorf("%s: Snap(%v).AlongM = %v, want %v", c.name, q, p.AlongM, c.wantAlong)
+		}
+		if got := r.snapScan(q).AlongM; got != c.wantAlong {
+			t.Errorf("%s: snapScan(%v).AlongM = %v, want %v", c.name, q, got, c.wantAlong)
+		}
 	}
 	// On the axis of the segment's great circle every point of it is equally far: the start.
-	assert.Equal(t, 0.0, r.Snap(orb.Point{0, 90}).AlongM)
-	assert.Equal(t, orb.Point{0, 0}, r.Snap(orb.Point{123, -90}).Point)
+	if got := r.Snap(orb.Point{0, 90}).AlongM; got != 0 {
+		t.Errorf("Snap([0 90]).AlongM = %v, want 0", got)
+	}
+	if got := r.Snap(orb.Point{123, -90}).Point; got != (orb.Point{0, 0}) {
+		t.Errorf("Snap([123 -90]).Point = %v, want [0 0]", got)
+	}
 }
 
 // TestVertexRule: a marker outside a corner is closest to the vertex; the place belongs to the
@@ -99,24 +121,40 @@ func TestVertexRule(t *testing.T) {
 	r := mustRoute(t, []orb.Point{{0, 0}, corner, {0.01, 0.01}})
 	q := orb.Point{0.011, -0.001}
 	p := r.Snap(q)
-	assert.Equal(t, 1, p.Segment)
-	assert.Equal(t, corner, p.Point)
-	assert.Equal(t, r.Segment(1).StartM, p.AlongM)
-	assert.InDelta(t, GeodesicDistM(q, corner), p.DistM, tolLocalM)
+	if p.Segment != 1 {
+		t.Errorf("Snap(%v).Segment = %d, want 1", q, p.Segment)
+	}
+	if p.Point != corner {
+		t.Errorf("Snap(%v).Point = %v, want the corner %v exactly", q, p.Point, corner)
+	}
+	if want := r.Segment(1).StartM; p.AlongM != want {
+		t.Errorf("Snap(%v).AlongM = %v, want %v (Segment(1).StartM)", q, p.AlongM, want)
+	}
+	near(t, fmt.Sprintf("Snap(%v).DistM", q), p.DistM, GeodesicDistM(q, corner), tolLocalM)
 
 	m := checkAgreesWithScan(t, r, r.PlaceAt(0), q)
-	assert.Equal(t, 1, m.Closest.Segment)
-	assert.Equal(t, corner, m.Closest.Point)
+	if m.Closest.Segment != 1 {
+		t.Errorf("Metrics(start, %v).Closest.Segment = %d, want 1", q, m.Closest.Segment)
+	}
+	if m.Closest.Point != corner {
+		t.Errorf("Metrics(start, %v).Closest.Point = %v, want the corner %v exactly", q, m.Closest.Point, corner)
+	}
 	// Segment 1 runs north along lon 0.01; the marker is east of it: right, and its cross-track
 	// distance is to the foot on that meridian, level with the marker.
-	assert.Equal(t, Right, m.Side)
-	assert.InDelta(t, -GeodesicDistM(q, orb.Point{0.01, -0.001}), m.CrossTrackM, 1e-6)
-	assert.InDelta(t, math.Abs(m.CrossTrackM)-SideOnM, m.SideMarginM, 1e-12)
+	if m.Side != Right {
+		t.Errorf("Metrics(start, %v).Side = %v, want %v", q, m.Side, Right)
+	}
+	near(t, fmt.Sprintf("Metrics(start, %v).CrossTrackM", q), m.CrossTrackM, -GeodesicDistM(q, orb.Point{0.01, -0.001}), 1e-6)
+	near(t, fmt.Sprintf("Metrics(start, %v).SideMarginM", q), m.SideMarginM, math.Abs(m.CrossTrackM)-SideOnM, 1e-12)
 
 	// At the route's end the last segment holds the place.
 	end := r.Snap(orb.Point{0.012, 0.02})
-	assert.Equal(t, 1, end.Segment)
-	assert.Equal(t, r.LengthM(), end.AlongM)
+	if end.Segment != 1 {
+		t.Errorf("Snap([0.012 0.02]).Segment = %d, want 1 (the last)", end.Segment)
+	}
+	if end.AlongM != r.LengthM() {
+		t.Errorf("Snap([0.012 0.02]).AlongM = %v, want %v (LengthM())", end.AlongM, r.LengthM())
+	}
 }
 
 // TestLoop: a closed square. The start and end are one position: Snap gives along 0 (the tie
@@ -126,21 +164,33 @@ func TestLoop(t *testing.T) {
 	sq := []orb.Point{{-0.01, -0.01}, {0.01, -0.01}, {0.01, 0.01}, {-0.01, 0.01}, {-0.01, -0.01}}
 	r := mustRoute(t, sq)
 	L := r.LengthM()
-	assert.Equal(t, 0.0, r.Snap(sq[0]).AlongM)
+	if got := r.Snap(sq[0]).AlongM; got != 0 {
+		t.Errorf("Snap(%v).AlongM = %v, want 0", sq[0], got)
+	}
 
 	user := r.PlaceAt(0.9 * L)
 	m := checkAgreesWithScan(t, r, user, sq[0])
-	assert.True(t, m.Ahead)
-	assert.Equal(t, L, m.Closest.AlongM)
-	assert.InDelta(t, 0.1*L, m.AlongM, 1e-9)
-	assert.Equal(t, 0.0, m.RouteDistM)
+	if !m.Ahead {
+		t.Errorf("Metrics(user at 0.9·L, %v).Ahead = false, want true", sq[0])
+	}
+	if m.Closest.AlongM != L {
+		t.Errorf("Metrics(user at 0.9·L, %v).Closest.AlongM = %v, want %v (LengthM())", sq[0], m.Closest.AlongM, L)
+	}
+	near(t, fmt.Sprintf("Metrics(user at 0.9·L, %v).AlongM", sq[0]), m.AlongM, 0.1*L, 1e-9)
+	if m.RouteDistM != 0 {
+		t.Errorf("Metrics(user at 0.9·L, %v).RouteDistM = %v, want 0", sq[0], m.RouteDistM)
+	}
 
 	past := orb.Point{-0.01, -0.011} // south of the end, in the last segment's direction of travel
 	m = checkAgreesWithScan(t, r, user, past)
-	assert.False(t, m.Ahead)
-	assert.Equal(t, sq[4], m.Closest.Point)
-	assert.InDelta(t, 0.1*L, m.AlongM, 1e-9) // the stretch to the end; callers report null
-	assert.InDelta(t, GeodesicDistM(past, sq[4]), m.RouteDistM, tolLocalM)
+	if m.Ahead {
+		t.Errorf("Metrics(user at 0.9·L, %v).Ahead = true, want false", past)
+	}
+	if m.Closest.Point != sq[4] {
+		t.Errorf("Metrics(user at 0.9·L, %v).Closest.Point = %v, want the end %v exactly", past, m.Closest.Point, sq[4])
+	}
+	near(t, fmt.Sprintf("Metrics(user at 0.9·L, %v).AlongM", past), m.AlongM, 0.1*L, 1e-9) // the stretch to the end; callers report null
+	near(t, fmt.Sprintf("Metrics(user at 0.9·L, %v).RouteDistM", past), m.RouteDistM, GeodesicDistM(past, sq[4]), tolLocalM)
 }
 
 // TestUTurn: out and back along one line. Beside it, both legs are equally near: the outbound leg
@@ -150,15 +200,23 @@ func TestUTurn(t *testing.T) {
 	L := r.LengthM()
 	q := orb.Point{0.005, 0.0005}
 	m := checkAgreesWithScan(t, r, r.PlaceAt(0), q)
-	assert.Equal(t, 0, m.Closest.Segment)
-	assert.Equal(t, Left, m.Side) // north of an eastbound leg
-	assert.InDelta(t, L/4, m.AlongM, 1e-3)
+	if m.Closest.Segment != 0 {
+		t.Errorf("Metrics(start, %v).Closest.Segment = %d, want 0", q, m.Closest.Segment)
+	}
+	if m.Side != Left { // north of an eastbound leg
+		t.Errorf("Metrics(start, %v).Side = %v, want %v", q, m.Side, Left)
+	}
+	near(t, fmt.Sprintf("Metrics(start, %v).AlongM", q), m.AlongM, L/4, 1e-3)
 
 	m = checkAgreesWithScan(t, r, r.PlaceAt(0.6*L), q)
-	assert.Equal(t, 1, m.Closest.Segment)
-	assert.Equal(t, Right, m.Side) // north of a westbound leg
-	assert.InDelta(t, 0.75*L-0.6*L, m.AlongM, 1e-3)
-	assert.InDelta(t, 0.15*L/10, m.EtaS, 1e-4)
+	if m.Closest.Segment != 1 {
+		t.Errorf("Metrics(user at 0.6·L, %v).Closest.Segment = %d, want 1", q, m.Closest.Segment)
+	}
+	if m.Side != Right { // north of a westbound leg
+		t.Errorf("Metrics(user at 0.6·L, %v).Side = %v, want %v", q, m.Side, Right)
+	}
+	near(t, fmt.Sprintf("Metrics(user at 0.6·L, %v).AlongM", q), m.AlongM, 0.75*L-0.6*L, 1e-3)
+	near(t, fmt.Sprintf("Metrics(user at 0.6·L, %v).EtaS", q), m.EtaS, 0.15*L/10, 1e-4)
 }
 
 // TestMarkerBehindUser: on the user's own segment only the part from the user on counts, so a
@@ -168,20 +226,34 @@ func TestMarkerBehindUser(t *testing.T) {
 	user := r.PlaceAt(1000)
 	q := orb.Point{0.002, 0.001}
 	m := checkAgreesWithScan(t, r, user, q)
-	assert.True(t, m.Ahead)
-	assert.Equal(t, 0.0, m.AlongM)
-	assert.Equal(t, 0.0, m.EtaS)
-	assert.Equal(t, user.Point, m.Closest.Point)
-	assert.InDelta(t, GeodesicDistM(q, user.Point), m.RouteDistM, tolLocalM)
-	assert.Equal(t, Left, m.Side)
+	if !m.Ahead {
+		t.Errorf("Metrics(user at 1000 m, %v).Ahead = false, want true", q)
+	}
+	if m.AlongM != 0 {
+		t.Errorf("Metrics(user at 1000 m, %v).AlongM = %v, want 0", q, m.AlongM)
+	}
+	if m.EtaS != 0 {
+		t.Errorf("Metrics(user at 1000 m, %v).EtaS = %v, want 0", q, m.EtaS)
+	}
+	if m.Closest.Point != user.Point {
+		t.Errorf("Metrics(user at 1000 m, %v).Closest.Point = %v, want the user's %v exactly", q, m.Closest.Point, user.Point)
+	}
+	near(t, fmt.Sprintf("Metrics(user at 1000 m, %v).RouteDistM", q), m.RouteDistM, GeodesicDistM(q, user.Point), tolLocalM)
+	if m.Side != Left {
+		t.Errorf("Metrics(user at 1000 m, %v).Side = %v, want %v", q, m.Side, Left)
+	}
 	// The cross-track distance is to the foot on the segment's great circle, behind the user.
-	assert.InDelta(t, GeodesicDistM(q, orb.Point{0.002, 0}), m.CrossTrackM, 1e-6)
+	near(t, fmt.Sprintf("Metrics(user at 1000 m, %v).CrossTrackM", q), m.CrossTrackM, GeodesicDistM(q, orb.Point{0.002, 0}), 1e-6)
 
 	// Behind the user on an earlier segment: the same.
 	user = r.PlaceAt(r.Segment(1).StartM + 100)
 	m = checkAgreesWithScan(t, r, user, q)
-	assert.Equal(t, 0.0, m.AlongM)
-	assert.Equal(t, 1, m.Closest.Segment)
+	if m.AlongM != 0 {
+		t.Errorf("Metrics(user 100 m into segment 1, %v).AlongM = %v, want 0", q, m.AlongM)
+	}
+	if m.Closest.Segment != 1 {
+		t.Errorf("Metrics(user 100 m into segment 1, %v).Closest.Segment = %d, want 1", q, m.Closest.Segment)
+	}
 }
 
 // TestMarkerPastRouteEnd: Ahead is false only when the foot on the last segment lies past the end.
@@ -202,10 +274,14 @@ func TestMarkerPastRouteEnd(t *testing.T) {
 	}
 	for _, c := range cases {
 		m := checkAgreesWithScan(t, r, user, c.q)
-		assert.Equal(t, c.ahead, m.Ahead, c.name)
+		if m.Ahead != c.ahead {
+			t.Errorf("%s: Metrics(user at 100 m, %v).Ahead = %v, want %v", c.name, c.q, m.Ahead, c.ahead)
+		}
 		if !c.ahead {
-			assert.Equal(t, end, m.Closest.Point, c.name)
-			assert.InDelta(t, r.LengthM()-100, m.AlongM, 1e-9, c.name)
+			if m.Closest.Point != end {
+				t.Errorf("%s: Metrics(user at 100 m, %v).Closest.Point = %v, want the end %v exactly", c.name, c.q, m.Closest.Point, end)
+			}
+			near(t, fmt.Sprintf("%s: Metrics(user at 100 m, %v).AlongM", c.name, c.q), m.AlongM, r.LengthM()-100, 1e-9)
 		}
 	}
 }
@@ -215,17 +291,26 @@ func TestAntimeridian(t *testing.T) {
 	r := mustRoute(t, []orb.Point{{179.995, 0}, {-179.995, 0}, {-179.99, 0.005}})
 	q := orb.Point{180, 0.001}
 	p := r.Snap(q)
-	assert.Equal(t, 0, p.Segment)
-	assert.InDelta(t, r.Segment(0).LengthM/2, p.AlongM, 1e-6)
-	assert.InDelta(t, 180, math.Abs(p.Point[0]), 1e-12)
-	assert.InDelta(t, 0, p.Point[1], 1e-12)
+	if p.Segment != 0 {
+		t.Errorf("Snap(%v).Segment = %d, want 0", q, p.Segment)
+	}
+	near(t, fmt.Sprintf("Snap(%v).AlongM", q), p.AlongM, r.Segment(0).LengthM/2, 1e-6)
+	near(t, fmt.Sprintf("|Snap(%v).Point longitude|", q), math.Abs(p.Point[0]), 180, 1e-12)
+	near(t, fmt.Sprintf("Snap(%v).Point latitude", q), p.Point[1], 0, 1e-12)
 	// 0.001° of latitude at the equator: a(1 − e²)·0.001° (meridional radius of curvature).
-	assert.InDelta(t, wgs84A*(1-wgs84E2)*0.001*degRad, p.DistM, 1e-6)
+	near(t, fmt.Sprintf("Snap(%v).DistM", q), p.DistM, wgs84A*(1-wgs84E2)*0.001*degRad, 1e-6)
 	m := checkAgreesWithScan(t, r, r.PlaceAt(0), q)
-	assert.Equal(t, Left, m.Side)
-	m = checkAgreesWithScan(t, r, r.PlaceAt(0), orb.Point{-179.999, -0.002})
-	assert.Equal(t, Right, m.Side)
-	assert.Equal(t, 90.0, r.Segment(0).HeadingDeg)
+	if m.Side != Left {
+		t.Errorf("Metrics(start, %v).Side = %v, want %v", q, m.Side, Left)
+	}
+	q2 := orb.Point{-179.999, -0.002}
+	m = checkAgreesWithScan(t, r, r.PlaceAt(0), q2)
+	if m.Side != Right {
+		t.Errorf("Metrics(start, %v).Side = %v, want %v", q2, m.Side, Right)
+	}
+	if got := r.Segment(0).HeadingDeg; got != 90 {
+		t.Errorf("Segment(0).HeadingDeg = %v, want 90 (east across ±180)", got)
+	}
 }
 
 // TestSideOnAndMargin: within 0.01 m of the line is On; the margin is the distance to flipping.
@@ -248,13 +333,20 @@ func TestSideOnAndMargin(t *testing.T) {
 	}
 	for _, c := range cases {
 		m := checkAgreesWithScan(t, r, user, orb.Point{0.005, c.northM / mPerDegLat})
-		assert.Equal(t, c.side, m.Side, "%v m north", c.northM)
-		assert.InDelta(t, c.margin, m.SideMarginM, 1e-9, "%v m north", c.northM)
-		assert.InDelta(t, c.northM, m.CrossTrackM, 1e-9, "%v m north", c.northM)
+		if m.Side != c.side {
+			t.Errorf("%v m north: Metrics.Side = %v, want %v", c.northM, m.Side, c.side)
+		}
+		near(t, fmt.Sprintf("%v m north: Metrics.SideMarginM", c.northM), m.SideMarginM, c.margin, 1e-9)
+		near(t, fmt.Sprintf("%v m north: Metrics.CrossTrackM", c.northM), m.CrossTrackM, c.northM, 1e-9)
 	}
-	assert.Equal(t, "left", Left.String())
-	assert.Equal(t, "right", Right.String())
-	assert.Equal(t, "on", On.String())
+	for _, c := range []struct {
+		side Side
+		want string
+	}{{Left, "left"}, {Right, "right"}, {On, "on"}} {
+		if got := c.side.String(); got != c.want {
+			t.Errorf("Side(%d).String() = %q, want %q", int8(c.side), got, c.want)
+		}
+	}
 }
 
 // TestZeroLengthSegmentsChangeNothing: duplicates give the same answers as the route without them.
@@ -268,7 +360,9 @@ func TestZeroLengthSegmentsChangeNothing(t *testing.T) {
 	for _, q := range markersNear(rng, base, 50) {
 		m1, m2 := r1.Metrics(u1, q), r2.Metrics(u2, q)
 		m1.Closest.pc, m2.Closest.pc = placeCache{}, placeCache{}
-		assert.Equal(t, m1, m2, "marker %v", q)
+		if !reflect.DeepEqual(m2, m1) {
+			t.Errorf("marker %v: Metrics with duplicate vertices = %+v, want %+v (without)", q, m2, m1)
+		}
 	}
 }
 
@@ -277,9 +371,9 @@ func TestEtaUsesSegmentSpeeds(t *testing.T) {
 	r := equatorRoute(t, []float64{1000, 1000}, []float64{10, 20})
 	q := orb.Point{1500 / wgs84A * radDeg, 0.001}
 	m := checkAgreesWithScan(t, r, r.PlaceAt(0), q)
-	assert.InDelta(t, 1500, m.AlongM, 1e-6)
-	assert.InDelta(t, 100+25, m.EtaS, 1e-6)
-	assert.InDelta(t, r.TimeBetweenS(0, m.Closest.AlongM), m.EtaS, 1e-9)
+	near(t, fmt.Sprintf("Metrics(start, %v).AlongM", q), m.AlongM, 1500, 1e-6)
+	near(t, fmt.Sprintf("Metrics(start, %v).EtaS", q), m.EtaS, 100+25, 1e-6)
+	near(t, fmt.Sprintf("Metrics(start, %v).EtaS vs TimeBetweenS(0, %v)", q, m.Closest.AlongM), m.EtaS, r.TimeBetweenS(0, m.Closest.AlongM), 1e-9)
 }
 
 // TestClosestPointAgainstS2: the closest point found is at the smallest spherical distance golang/geo
@@ -299,9 +393,11 @@ func TestClosestPointAgainstS2(t *testing.T) {
 			onRoute = math.Min(onRoute, s2.DistanceFromSegment(vec(p.Point), a, b).Radians())
 		}
 		got := qv.Distance(vec(p.Point)).Radians()
-		assert.InDelta(t, minAng, got, 1e-13, "Snap(%v) spherical distance vs s2", q)
-		assert.Less(t, onRoute, 1e-13, "Snap(%v).Point off the route", q)
-		assert.InDelta(t, 0, GeodesicDistM(r.PointAt(p.AlongM), p.Point), 1e-6, "PointAt(Snap(%v).AlongM)", q)
+		near(t, fmt.Sprintf("Snap(%v) spherical distance (rad, vs s2.DistanceFromSegment)", q), got, minAng, 1e-13)
+		if !(onRoute < 1e-13) {
+			t.Errorf("Snap(%v).Point = %v is %v rad off the route, want < 1e-13", q, p.Point, onRoute)
+		}
+		near(t, fmt.Sprintf("GeodesicDistM(PointAt(Snap(%v).AlongM), Snap(%v).Point)", q, q), GeodesicDistM(r.PointAt(p.AlongM), p.Point), 0, 1e-6)
 	}
 }
 
@@ -317,14 +413,18 @@ func TestMetricsDoesNotAllocate(t *testing.T) {
 		}
 		_ = r.Snap(ms[0])
 	})
-	assert.Zero(t, n)
+	if n != 0 {
+		t.Errorf("Metrics and Snap allocate %v times a run, want 0", n)
+	}
 	// A Place whose fields were changed by hand is re-derived, not trusted.
 	moved := user
 	moved.AlongM += 500
 	fresh := r.PlaceAt(moved.AlongM)
 	fresh.Query = user.Query
 	for _, q := range ms[:10] {
-		assert.Equal(t, r.Metrics(fresh, q).Closest.AlongM, r.Metrics(moved, q).Closest.AlongM)
+		if got, want := r.Metrics(moved, q).Closest.AlongM, r.Metrics(fresh, q).Closest.AlongM; got != want {
+			t.Errorf("Metrics(hand-moved Place, %v).Closest.AlongM = %v, want %v (from PlaceAt)", q, got, want)
+		}
 	}
 }
 
@@ -338,16 +438,24 @@ func TestRegressions(t *testing.T) {
 	r := mustRoute(t, uturn, 2.718281828459045)
 	q := orb.Point{1.0000000000047908, -0.99999100679632213}
 	p, ps := r.Snap(q), r.snapScan(q)
-	assert.Equal(t, ps.Segment, p.Segment, "Snap vs snapScan segment")
-	assert.Equal(t, 1, p.Segment)
-	assert.Equal(t, uturn[1], p.Point)
+	if p.Segment != ps.Segment {
+		t.Errorf("Snap(%v).Segment = %d, want %d (snapScan)", q, p.Segment, ps.Segment)
+	}
+	if p.Segment != 1 {
+		t.Errorf("Snap(%v).Segment = %d, want 1", q, p.Segment)
+	}
+	if p.Point != uturn[1] {
+		t.Errorf("Snap(%v).Point = %v, want vertex 1 %v exactly", q, p.Point, uturn[1])
+	}
 
 	// The user 2e-11 m past the first vertex, whose unit vector rounds to the vertex's. A foot
 	// 5.6e-7 m along was snapped back to the vertex, behind the user.
 	r = mustRoute(t, []orb.Point{{0, 0}, {0.001, 0}})
 	user := r.PlaceAt(1.9667994472309299e-11)
 	m := checkAgreesWithScan(t, r, user, orb.Point{5e-12, 0.0001})
-	assert.GreaterOrEqual(t, m.Closest.AlongM, user.AlongM)
+	if !(m.Closest.AlongM >= user.AlongM) {
+		t.Errorf("Metrics(user at %v m, [5e-12 0.0001]).Closest.AlongM = %v, want ≥ the user's", user.AlongM, m.Closest.AlongM)
+	}
 }
 
 // TestManyTiedStretches: a route driving one road back and forth ten times ties more segments
@@ -364,13 +472,22 @@ func TestManyTiedStretches(t *testing.T) {
 		}
 	}
 	r := mustRoute(t, pts)
-	require.Greater(t, r.NumSegments(), maxTies)
+	if !(r.NumSegments() > maxTies) {
+		t.Fatalf("NumSegments() = %d, want > maxTies %d", r.NumSegments(), maxTies)
+	}
 	q := orb.Point{2.004, 45.0003}
 	p := r.Snap(q)
-	assert.Equal(t, 0, p.Segment)
-	assert.Equal(t, r.snapScan(q).Segment, p.Segment)
+	if p.Segment != 0 {
+		t.Errorf("Snap(%v).Segment = %d, want 0", q, p.Segment)
+	}
+	if want := r.snapScan(q).Segment; p.Segment != want {
+		t.Errorf("Snap(%v).Segment = %d, want %d (snapScan)", q, p.Segment, want)
+	}
 	// From a user on the fourth pass, the fourth pass wins.
 	user := r.PlaceAt(r.Segment(3).StartM + 1)
-	m := checkAgreesWithScan(t, r, user, orb.Point{2.009, 45.0003})
-	assert.Equal(t, 3, m.Closest.Segment)
+	q = orb.Point{2.009, 45.0003}
+	m := checkAgreesWithScan(t, r, user, q)
+	if m.Closest.Segment != 3 {
+		t.Errorf("Metrics(user on the fourth pass, %v).Closest.Segment = %d, want 3", q, m.Closest.Segment)
+	}
 }

@@ -3,12 +3,23 @@ package routes
 import (
 	"math"
 	"math/rand/v2"
+	"testing"
 
 	"github.com/paulmach/orb"
 )
 
 // Helpers shared by the tests and benchmarks: a spherical "destination point" to lay out routes
-// and markers (generation only; nothing is checked with it).
+// and markers (generation only; nothing is checked with it), and near, the one check that is not
+// written out where it is used.
+
+// near reports (t.Errorf: the test goes on) a got further than tol from want, or NaN, as
+// "what = got, want want (off by d, tolerance tol)".
+func near(t *testing.T, what string, got, want, tol float64) {
+	t.Helper()
+	if d := math.Abs(got - want); !(d <= tol) {
+		t.Errorf("%s = %v, want %v (off by %.3g, tolerance %.3g)", what, got, want, d, tol)
+	}
+}
 
 // offsetPoint returns the point distM metres from p on bearing bearingDeg, on the sphere of the
 // mean radius.

@@ -7,16 +7,15 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"os"
 	"os/exec"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
 
 	"github.com/paulmach/orb"
-	"github.com/stretchr/testify/assert"
-	"github.com/stretchr/testify/require"
 
+	"github.com/viewspec/viewspec/internal/testtool"
 	"github.com/viewspec/viewspec/spec"
 )
 
@@ -65,60 +64,111 @@ func TestNewRefusesInvalidInput(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			r, err := New(c.points, c.speeds)
-			require.Error(t, err)
-			assert.Nil(t, r)
+			if err == nil {
+				t.Fatalf("New(%v, %v) = %p, nil; want an error", c.points, c.speeds, r)
+			}
+			if r != nil {
+				t.Errorf("New(%v, %v) = %p with error %v, want a nil Route", c.points, c.speeds, r, err)
+			}
 			var ie *spec.FieldError
-			require.True(t, errors.As(err, &ie), "error %v is not a *spec.FieldError", err)
-			assert.Equal(t, c.field, ie.Field)
-			assert.Equal(t, c.value, ie.Value)
-			assert.Equal(t, c.msg, err.Error())
+			if !errors.As(err, &ie) {
+				t.Fatalf("New(%v, %v): error %v is not a *spec.FieldError", c.points, c.speeds, err)
+			}
+			if ie.Field != c.field {
+				t.Errorf("New(%v, %v): FieldError.Field = %q, want %q", c.points, c.speeds, ie.Field, c.field)
+			}
+			if ie.Value != c.value {
+				t.Errorf("New(%v, %v): FieldError.Value = %q, want %q", c.points, c.speeds, ie.Value, c.value)
+			}
+			if got := err.Error(); got != c.msg {
+				t.Errorf("New(%v, %v): error %q, want %q", c.points, c.speeds, got, c.msg)
+			}
 		})
 	}
 }
 
 func TestValidateLatLon(t *testing.T) {
-	assert.NoError(t, ValidateLatLon("user", orb.Point{180, -90}))
-	assert.NoError(t, ValidateLatLon("user", orb.Point{-180, 90}))
-	err := ValidateLatLon("markers[2]", orb.Point{10, 91})
-	assert.EqualError(t, err, "markers[2].lat = 91: latitude must be finite and within [-90, 90]")
-	err = ValidateLatLon("markers[0]", orb.Point{math.Inf(-1), 0})
-	assert.EqualError(t, err, "markers[0].lon = -Inf: longitude must be finite and within [-180, 180]")
-	// Latitude is reported first when both are bad.
-	err = ValidateLatLon("p", orb.Point{math.NaN(), math.NaN()})
-	assert.EqualError(t, err, "p.lat = NaN: latitude must be finite and within [-90, 90]")
+	for _, p := range []orb.Point{{180, -90}, {-180, 90}} {
+		if err := ValidateLatLon("user", p); err != nil {
+			t.Errorf("ValidateLatLon(\"user\", %v) = %v, want nil", p, err)
+		}
+	}
+	cases := []struct {
+		field string
+		p     orb.Point
+		want  string
+	}{
+		{"markers[2]", orb.Point{10, 91}, "markers[2].lat = 91: latitude must be finite and within [-90, 90]"},
+		{"markers[0]", orb.Point{math.Inf(-1), 0}, "markers[0].lon = -Inf: longitude must be finite and within [-180, 180]"},
+		// Latitude is reported first when both are bad.
+		{"p", orb.Point{math.NaN(), math.NaN()}, "p.lat = NaN: latitude must be finite and within [-90, 90]"},
+	}
+	for _, c := range cases {
+		if err := ValidateLatLon(c.field, c.p); err == nil || err.Error() != c.want {
+			t.Errorf("ValidateLatLon(%q, %v) = %v, want error %q", c.field, c.p, err, c.want)
+		}
+	}
 }
 
 func TestNewDropsZeroLengthSegments(t *testing.T) {
 	a, b, c := orb.Point{10, 50}, orb.Point{10.01, 50}, orb.Point{10.01, 50.01}
 	// The speeds of the zero-length segments (entries 0 and 2) are ignored, even when unusable.
 	r, err := New([]orb.Point{a, a, b, b, c}, []float64{-5, 10, math.NaN(), 20})
-	require.NoError(t, err)
-	assert.Equal(t, []orb.Point{a, b, c}, r.Points())
-	require.Equal(t, 2, r.NumSegments())
-	assert.Equal(t, 10.0, r.Segment(0).SpeedMps)
-	assert.Equal(t, 20.0, r.Segment(1).SpeedMps)
+	if err != nil {
+		t.Fatalf("New(a, a, b, b, c): %v", err)
+	}
+	if got, want := r.Points(), []orb.Point{a, b, c}; !slices.Equal(got, want) {
+		t.Errorf("New(a, a, b, b, c).Points() = %v, want %v", got, want)
+	}
+	if n := r.NumSegments(); n != 2 {
+		t.Fatalf("New(a, a, b, b, c).NumSegments() = %d, want 2", n)
+	}
+	if got := r.Segment(0).SpeedMps; got != 10 {
+		t.Errorf("Segment(0).SpeedMps = %v, want 10", got)
+	}
+	if got := r.Segment(1).SpeedMps; got != 20 {
+		t.Errorf("Segment(1).SpeedMps = %v, want 20", got)
+	}
 
 	// Longitudes -180 and 180 are one point, and so is every longitude at a pole.
-	r, err = New([]orb.Point{{179.9, 0}, {180, 0}, {-180, 0}, {-179.9, 0}}, []float64{1, 2, 3})
-	require.NoError(t, err)
-	assert.Equal(t, 2, r.NumSegments())
-	assert.Equal(t, []float64{1, 3}, []float64{r.Segment(0).SpeedMps, r.Segment(1).SpeedMps})
-	r, err = New([]orb.Point{{0, 89}, {0, 90}, {120, 90}, {120, 89}}, []float64{1, 2, 3})
-	require.NoError(t, err)
-	assert.Equal(t, 2, r.NumSegments())
+	pts := []orb.Point{{179.9, 0}, {180, 0}, {-180, 0}, {-179.9, 0}}
+	r, err = New(pts, []float64{1, 2, 3})
+	if err != nil {
+		t.Fatalf("New(%v): %v", pts, err)
+	}
+	if n := r.NumSegments(); n != 2 {
+		t.Errorf("New(%v).NumSegments() = %d, want 2", pts, n)
+	}
+	if s0, s1 := r.Segment(0).SpeedMps, r.Segment(1).SpeedMps; s0 != 1 || s1 != 3 {
+		t.Errorf("New(%v) segment speeds = [%v %v], want [1 3]", pts, s0, s1)
+	}
+	pts = []orb.Point{{0, 89}, {0, 90}, {120, 90}, {120, 89}}
+	r, err = New(pts, []float64{1, 2, 3})
+	if err != nil {
+		t.Fatalf("New(%v): %v", pts, err)
+	}
+	if n := r.NumSegments(); n != 2 {
+		t.Errorf("New(%v).NumSegments() = %d, want 2", pts, n)
+	}
 }
 
 // TestLengthIsSumOfGeodesics: segment lengths are WGS84 geodesics (SPEC §4).
 func TestLengthIsSumOfGeodesics(t *testing.T) {
 	pts := []orb.Point{{-0.1276, 51.5072}, {2.3522, 48.8566}, {13.405, 52.52}, {13.405, 52.52}, {-3.7038, 40.4168}}
 	r, err := New(pts, []float64{30})
-	require.NoError(t, err)
+	if err != nil {
+		t.Fatalf("New(%v): %v", pts, err)
+	}
 	want := GeodesicDistM(pts[0], pts[1]) + GeodesicDistM(pts[1], pts[2]) + GeodesicDistM(pts[2], pts[4])
-	assert.Equal(t, want, r.LengthM())
-	assert.InDelta(t, want/30, r.DurationS(), 1e-9)
+	if got := r.LengthM(); got != want {
+		t.Errorf("LengthM() = %v, want %v (the sum of GeodesicDistM, exactly)", got, want)
+	}
+	near(t, "DurationS()", r.DurationS(), want/30, 1e-9)
 	for i := range r.NumSegments() {
 		sg := r.Segment(i)
-		assert.Equal(t, GeodesicDistM(sg.From, sg.To), sg.LengthM)
+		if want := GeodesicDistM(sg.From, sg.To); sg.LengthM != want {
+			t.Errorf("Segment(%d).LengthM = %v, want %v (GeodesicDistM(%v, %v), exactly)", i, sg.LengthM, want, sg.From, sg.To)
+		}
 	}
 }
 
@@ -145,7 +195,9 @@ func TestSegmentHeadings(t *testing.T) {
 	}
 	for _, c := range cases {
 		r, err := New([]orb.Point{c.a, c.b}, []float64{1})
-		require.NoError(t, err, c.name)
+		if err != nil {
+			t.Fatalf("%s: New(%v, %v): %v", c.name, c.a, c.b, err)
+		}
 		got := r.Segment(0).HeadingDeg
 		if math.Abs(got-c.want) > c.tol || got < 0 || got >= 360 {
 			t.Errorf("%s: heading of %v → %v = %.15g, want %.15g (off by %.3g°, tolerance %.3g°)",
@@ -159,13 +211,7 @@ func TestSegmentHeadings(t *testing.T) {
 // straight line on the Mercator plane, with Δλ the short way. Latitudes stay inside the Mercator
 // clamp, where the two agree by definition.
 func TestHeadingAgainstRhumbSolve(t *testing.T) {
-	bin, err := exec.LookPath("RhumbSolve")
-	if err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatal("RhumbSolve not found: CI must install Debian package geographiclib-tools")
-		}
-		t.Skip("install Debian package geographiclib-tools")
-	}
+	bin := testtool.Need(t, "RhumbSolve", "geographiclib-tools")
 	rng := rand.New(rand.NewPCG(3, 14))
 	type pair struct{ a, b orb.Point }
 	var pairs []pair
@@ -195,14 +241,20 @@ func TestHeadingAgainstRhumbSolve(t *testing.T) {
 	cmd := exec.Command(bin, "-i", "-e", "6378137", "0", "-p", "9")
 	cmd.Stdin = &in
 	out, err := cmd.Output()
-	require.NoError(t, err)
+	if err != nil {
+		t.Fatalf("RhumbSolve -i -e 6378137 0 -p 9: %v", err)
+	}
 	sc := bufio.NewScanner(bytes.NewReader(out))
 	i := 0
 	for ; sc.Scan(); i++ {
 		f := strings.Fields(sc.Text())
-		require.Len(t, f, 3, "RhumbSolve line %d", i+1)
+		if len(f) != 3 {
+			t.Fatalf("RhumbSolve line %d: %q: want 3 fields", i+1, sc.Text())
+		}
 		want, err := strconv.ParseFloat(f[0], 64)
-		require.NoError(t, err)
+		if err != nil {
+			t.Fatalf("RhumbSolve line %d: azimuth %q: %v", i+1, f[0], err)
+		}
 		got := mercatorHeadingDeg(pairs[i].a, pairs[i].b)
 		// Near-coincident pairs: the inputs' own resolution limits the bearing (10 nm lateral).
 		tol := math.Max(1e-9, 1e-8/GeodesicDistM(pairs[i].a, pairs[i].b)*radDeg)
@@ -211,7 +263,9 @@ func TestHeadingAgainstRhumbSolve(t *testing.T) {
 				pairs[i].a, pairs[i].b, got, want, d, tol)
 		}
 	}
-	require.Equal(t, len(pairs), i, "RhumbSolve answered %d lines for %d pairs", i, len(pairs))
+	if i != len(pairs) {
+		t.Fatalf("RhumbSolve answered %d lines for %d pairs", i, len(pairs))
+	}
 }
 
 // TestNewNearlyCoincidentVertices: distinct vertices closer than the unit sphere resolves
@@ -222,10 +276,14 @@ func TestNewNearlyCoincidentVertices(t *testing.T) {
 		for _, base := range []orb.Point{{10, 50}, {-179.9, -89.99}, {0, 0}, {123.456, 12.5}} {
 			pts := []orb.Point{base, {base[0] + d, base[1]}, {base[0] + d, base[1] + 0.001}}
 			r, err := New(pts, []float64{10})
-			require.NoError(t, err, "New(%v)", pts)
+			if err != nil {
+				t.Fatalf("New(%v): %v", pts, err)
+			}
 			m := r.Metrics(r.PlaceAt(0), orb.Point{base[0] + 0.0005, base[1] + 0.0005})
 			for _, v := range []float64{m.RouteDistM, m.AlongM, m.EtaS, m.CrossTrackM, r.LengthM()} {
-				require.False(t, math.IsNaN(v) || math.IsInf(v, 0), "non-finite answer on %v: %+v", pts, m)
+				if math.IsNaN(v) || math.IsInf(v, 0) {
+					t.Fatalf("non-finite answer on %v: %+v (LengthM %v)", pts, m, r.LengthM())
+				}
 			}
 		}
 	}

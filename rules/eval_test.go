@@ -3,9 +3,9 @@ package rules
 import (
 	"errors"
 	"math"
+	"reflect"
+	"slices"
 	"testing"
-
-	"github.com/stretchr/testify/require"
 )
 
 // worked is the rule set of the worked examples. Its edges, 36 and 72 km/h, are 10 and 20 m/s, and its
@@ -69,7 +69,9 @@ func TestConversionIsOneMultiplication(t *testing.T) {
 		s.Bands[1].BelowKmh = Edge(100)
 		edge := c.edgeKmh
 		st, err := s.Start(edge/3.6, 0, false)
-		require.NoError(t, err)
+		if err != nil {
+			t.Fatalf("edge %v km/h: Start(%v, 0, false): %v", edge, edge/3.6, err)
+		}
 		if st.Band() != c.wantBand {
 			t.Errorf("edge %v km/h, speed %v m/s (= %v km/h): band %d, want %d", edge, edge/3.6, edge/3.6*3.6, st.Band(), c.wantBand)
 		}
@@ -118,13 +120,19 @@ func TestBandHysteresis(t *testing.T) {
 				s.HysteresisKmh = c.hyst
 			}
 			st, err := s.Start(c.speeds[0], 0, false)
-			require.NoError(t, err)
+			if err != nil {
+				t.Fatalf("Start(%v, 0, false): %v", c.speeds[0], err)
+			}
 			got := []int{st.Band()}
 			for _, v := range c.speeds[1:] {
-				require.NoError(t, st.Step(1, v, 0, false))
+				if err := st.Step(1, v, 0, false); err != nil {
+					t.Fatalf("Step(1, %v, 0, false): %v", v, err)
+				}
 				got = append(got, st.Band())
 			}
-			require.Equal(t, c.want, got, "speeds %v m/s", c.speeds)
+			if !slices.Equal(got, c.want) {
+				t.Fatalf("speeds %v m/s: bands %v, want %v", c.speeds, got, c.want)
+			}
 		})
 	}
 }
@@ -161,7 +169,9 @@ func TestTargetsTurnAndClamp(t *testing.T) {
 				c.edit(s)
 			}
 			z, p, err := s.Evaluate([]Sample{{TS: 3, SpeedMps: c.speedMps, TurnDistM: c.turn}})
-			require.NoError(t, err)
+			if err != nil {
+				t.Fatalf("Evaluate(speed %v m/s, turn %v): %v", c.speedMps, c.turn, err)
+			}
 			if z[0] != c.wantZoom || p[0] != c.wantPit {
 				t.Errorf("Evaluate(speed %v m/s, turn %v) = zoom %v pitch %v, want %v %v (exact)", c.speedMps, c.turn, z[0], p[0], c.wantZoom, c.wantPit)
 			}
@@ -197,9 +207,15 @@ func TestRateLimit(t *testing.T) {
 	wantZoom := []float64{17, 16.75, 15.75, 15.625, 15, 15.5, 15.25, 15.75, 17}
 	wantPitch := []float64{40, 45, 60, 60, 60, 60, 60, 50, 40}
 	z, p, err := s.Evaluate(samples)
-	require.NoError(t, err)
-	require.Equal(t, wantZoom, z, "zoom")
-	require.Equal(t, wantPitch, p, "pitch")
+	if err != nil {
+		t.Fatalf("Evaluate: %v", err)
+	}
+	if !slices.Equal(z, wantZoom) {
+		t.Fatalf("Evaluate zoom = %v, want %v", z, wantZoom)
+	}
+	if !slices.Equal(p, wantPitch) {
+		t.Fatalf("Evaluate pitch = %v, want %v", p, wantPitch)
+	}
 }
 
 func TestFirstSampleHasNoHysteresis(t *testing.T) {
@@ -209,13 +225,25 @@ func TestFirstSampleHasNoHysteresis(t *testing.T) {
 	s := worked()
 	v := 40 / 3.6
 	z, p, err := s.Evaluate([]Sample{{TS: 0, SpeedMps: v}})
-	require.NoError(t, err)
-	require.Equal(t, []float64{16}, z)
-	require.Equal(t, []float64{50}, p)
+	if err != nil {
+		t.Fatalf("Evaluate(40 km/h): %v", err)
+	}
+	if want := []float64{16}; !slices.Equal(z, want) {
+		t.Fatalf("Evaluate(40 km/h) zoom = %v, want %v", z, want)
+	}
+	if want := []float64{50}; !slices.Equal(p, want) {
+		t.Fatalf("Evaluate(40 km/h) pitch = %v, want %v", p, want)
+	}
 	z, p, err = s.Evaluate([]Sample{{TS: 0, SpeedMps: 5}, {TS: 10, SpeedMps: v}})
-	require.NoError(t, err)
-	require.Equal(t, []float64{17, 17}, z)
-	require.Equal(t, []float64{40, 40}, p)
+	if err != nil {
+		t.Fatalf("Evaluate(18 km/h, then 40 km/h): %v", err)
+	}
+	if want := []float64{17, 17}; !slices.Equal(z, want) {
+		t.Fatalf("Evaluate(18 km/h, then 40 km/h) zoom = %v, want %v", z, want)
+	}
+	if want := []float64{40, 40}; !slices.Equal(p, want) {
+		t.Fatalf("Evaluate(18 km/h, then 40 km/h) pitch = %v, want %v", p, want)
+	}
 }
 
 func TestEvaluateRejectsBadSamples(t *testing.T) {
@@ -240,12 +268,22 @@ func TestEvaluateRejectsBadSamples(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			z, p, err := s.Evaluate(c.samples)
-			require.Nil(t, z)
-			require.Nil(t, p)
+			if z != nil {
+				t.Fatalf("Evaluate zoom = %v (error %v), want nil", z, err)
+			}
+			if p != nil {
+				t.Fatalf("Evaluate pitch = %v (error %v), want nil", p, err)
+			}
 			var fe *Problem
-			require.True(t, errors.As(err, &fe), "error %v is not a *Problem", err)
-			require.Equal(t, c.kind, fe.Kind)
-			require.EqualError(t, err, c.wantError)
+			if !errors.As(err, &fe) {
+				t.Fatalf("Evaluate: error %v is not a *Problem", err)
+			}
+			if fe.Kind != c.kind {
+				t.Fatalf("Evaluate: Problem.Kind = %v, want %v", fe.Kind, c.kind)
+			}
+			if err.Error() != c.wantError {
+				t.Fatalf("Evaluate: error %q, want %q", err, c.wantError)
+			}
 		})
 	}
 }
@@ -253,42 +291,70 @@ func TestEvaluateRejectsBadSamples(t *testing.T) {
 func TestEvaluateEdgeCases(t *testing.T) {
 	s := worked()
 	z, p, err := s.Evaluate(nil)
-	require.NoError(t, err)
-	require.NotNil(t, z, "no samples give empty slices, not nil (the wire writes [] not null)")
-	require.Empty(t, z)
-	require.Empty(t, p)
+	if err != nil {
+		t.Fatalf("Evaluate(nil): %v", err)
+	}
+	if z == nil {
+		t.Fatalf("Evaluate(nil) zoom = nil, want an empty slice (the wire writes [] not null)")
+	}
+	if len(z) != 0 {
+		t.Fatalf("Evaluate(nil) zoom = %v, want empty", z)
+	}
+	if len(p) != 0 {
+		t.Fatalf("Evaluate(nil) pitch = %v, want empty", p)
+	}
 
 	// Times so far apart that their difference overflows: the gap counts as long enough to reach the
 	// target (17 → 15 and 40 → 60), and nothing becomes NaN.
 	z, p, err = s.Evaluate([]Sample{{TS: -math.MaxFloat64, SpeedMps: 5}, {TS: math.MaxFloat64, SpeedMps: 30}})
-	require.NoError(t, err)
-	require.Equal(t, []float64{17, 15}, z)
-	require.Equal(t, []float64{40, 60}, p)
+	if err != nil {
+		t.Fatalf("Evaluate(t = ∓MaxFloat64): %v", err)
+	}
+	if want := []float64{17, 15}; !slices.Equal(z, want) {
+		t.Fatalf("Evaluate(t = ∓MaxFloat64) zoom = %v, want %v", z, want)
+	}
+	if want := []float64{40, 60}; !slices.Equal(p, want) {
+		t.Fatalf("Evaluate(t = ∓MaxFloat64) pitch = %v, want %v", p, want)
+	}
 
 	// An invalid set is refused before any sample is read.
 	bad := worked()
 	bad.MaxZoomRatePerS = 0
 	_, _, err = bad.Evaluate([]Sample{{TS: 0}})
-	require.EqualError(t, err, "max_zoom_rate_per_s: 0 is outside (0, +Inf)")
+	if want := "max_zoom_rate_per_s: 0 is outside (0, +Inf)"; err == nil || err.Error() != want {
+		t.Fatalf("Evaluate with max_zoom_rate_per_s 0: error %v, want %q", err, want)
+	}
 }
 
 func TestStateErrors(t *testing.T) {
 	var zero State
 	err := zero.Step(1, 1, 0, false)
 	var fe *Problem
-	require.True(t, errors.As(err, &fe))
-	require.Equal(t, KindNotStarted, fe.Kind)
+	if !errors.As(err, &fe) {
+		t.Fatalf("zero State: Step(1, 1, 0, false) = %v, want a *Problem", err)
+	}
+	if fe.Kind != KindNotStarted {
+		t.Fatalf("zero State: Step(1, 1, 0, false): Problem.Kind = %v, want %v", fe.Kind, KindNotStarted)
+	}
 
 	s := worked()
 	_, err = s.Start(-1, 0, false)
-	require.EqualError(t, err, "speed_mps: -1 is outside [0, +Inf)")
+	if want := "speed_mps: -1 is outside [0, +Inf)"; err == nil || err.Error() != want {
+		t.Fatalf("Start(-1, 0, false) = %v, want error %q", err, want)
+	}
 	_, err = s.Start(1, math.NaN(), true)
-	require.EqualError(t, err, "turn_dist_m: NaN is not a finite number")
+	if want := "turn_dist_m: NaN is not a finite number"; err == nil || err.Error() != want {
+		t.Fatalf("Start(1, NaN, true) = %v, want error %q", err, want)
+	}
 	_, err = s.Start(1, math.NaN(), false) // no turn: the distance is not read
-	require.NoError(t, err)
+	if err != nil {
+		t.Fatalf("Start(1, NaN, false) = %v, want nil", err)
+	}
 
 	st, err := s.Start(5, 0, false)
-	require.NoError(t, err)
+	if err != nil {
+		t.Fatalf("Start(5, 0, false): %v", err)
+	}
 	before := st
 	for _, c := range []struct {
 		dt, speed float64
@@ -300,14 +366,20 @@ func TestStateErrors(t *testing.T) {
 		{math.NaN(), 5, "dt_s: NaN is not a finite number"},
 		{1, math.Inf(1), "speed_mps: +Inf is not a finite number"},
 	} {
-		require.EqualError(t, st.Step(c.dt, c.speed, 0, false), c.want)
-		require.Equal(t, before, st, "a refused step leaves the state as it was")
+		if err := st.Step(c.dt, c.speed, 0, false); err == nil || err.Error() != c.want {
+			t.Fatalf("Step(%v, %v, 0, false) = %v, want error %q", c.dt, c.speed, err, c.want)
+		}
+		if !reflect.DeepEqual(st, before) {
+			t.Fatalf("after the refused Step(%v, %v, 0, false): state %+v, want %+v (a refused step leaves the state as it was)", c.dt, c.speed, st, before)
+		}
 	}
 
 	bad := worked()
 	bad.Bands = nil
 	_, err = bad.Start(1, 0, false)
-	require.EqualError(t, err, "bands: empty: at least one band is needed")
+	if want := "bands: empty: at least one band is needed"; err == nil || err.Error() != want {
+		t.Fatalf("Start with no bands = %v, want error %q", err, want)
+	}
 }
 
 func TestTurnHeadingDeg(t *testing.T) {

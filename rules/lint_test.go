@@ -1,13 +1,15 @@
 package rules
 
 import (
+	"encoding/json"
+	"errors"
 	"fmt"
 	"os"
 	"path/filepath"
+	"reflect"
+	"slices"
 	"strings"
 	"testing"
-
-	"github.com/stretchr/testify/require"
 )
 
 // baseYAML is worked() as a rule file; the line numbers in the tables below count from its first line.
@@ -57,11 +59,26 @@ func briefs(fs []Finding) []string {
 	return out
 }
 
+// setText renders a Set for failure messages: its JSON, so that band edges show as numbers.
+func setText(s *Set) string {
+	b, err := json.Marshal(s)
+	if err != nil {
+		return fmt.Sprintf("%+v (%v)", *s, err)
+	}
+	return string(b)
+}
+
 func TestLintBaseIsClean(t *testing.T) {
-	require.Empty(t, Lint([]byte(baseYAML), "base.yaml"))
+	if fs := Lint([]byte(baseYAML), "base.yaml"); len(fs) != 0 {
+		t.Fatalf("Lint(baseYAML) found:\n%s", findingsText(fs))
+	}
 	s, err := Parse([]byte(baseYAML), "base.yaml")
-	require.NoError(t, err)
-	require.Equal(t, *worked(), *s)
+	if err != nil {
+		t.Fatalf("Parse(baseYAML): %v", err)
+	}
+	if !reflect.DeepEqual(*s, *worked()) {
+		t.Fatalf("Parse(baseYAML) = %s, want %s (worked())", setText(s), setText(worked()))
+	}
 }
 
 func TestLintFindings(t *testing.T) {
@@ -134,11 +151,19 @@ func TestLintFindings(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			fs := Lint(c.data, "t.yaml")
-			require.Equal(t, c.want, briefs(fs), "findings:\n%s", findingsText(fs))
+			if got := briefs(fs); !slices.Equal(got, c.want) {
+				t.Fatalf("Lint = %q, want %q; findings:\n%s", got, c.want, findingsText(fs))
+			}
 			for _, f := range fs {
-				require.Equal(t, "t.yaml", f.File)
-				require.GreaterOrEqual(t, f.Line, 1)
-				require.NotEmpty(t, f.Message)
+				if f.File != "t.yaml" {
+					t.Fatalf("finding %v: File = %q, want %q", f, f.File, "t.yaml")
+				}
+				if !(f.Line >= 1) {
+					t.Fatalf("finding %v: Line = %d, want ≥ 1", f, f.Line)
+				}
+				if f.Message == "" {
+					t.Fatalf("finding %v: empty Message", f)
+				}
 			}
 			// Parse rejects exactly when there is an error, and reports the same errors.
 			_, err := Parse(c.data, "t.yaml")
@@ -146,11 +171,18 @@ func TestLintFindings(t *testing.T) {
 			for _, f := range fs {
 				if f.Severity == SeverityError {
 					nerr++
-					require.ErrorContains(t, err, f.String()[:strings.Index(f.String(), ": error: ")]+": ")
+					want := f.String()[:strings.Index(f.String(), ": error: ")] + ": "
+					if err == nil || !strings.Contains(err.Error(), want) {
+						t.Fatalf("Parse error %v, want one containing %q (finding %v)", err, want, f)
+					}
 				}
 			}
-			require.Equal(t, nerr > 0, err != nil, "Parse error %v", err)
-			require.Equal(t, fs, Lint(c.data, "t.yaml"), "deterministic")
+			if (err != nil) != (nerr > 0) {
+				t.Fatalf("Parse error %v with %d error findings: want an error exactly when there are error findings", err, nerr)
+			}
+			if again := Lint(c.data, "t.yaml"); !slices.Equal(again, fs) {
+				t.Fatalf("Lint again = %v, want %v (deterministic)", again, fs)
+			}
 		})
 	}
 }
@@ -181,8 +213,12 @@ func TestLintMessages(t *testing.T) {
 	}
 	for _, c := range cases {
 		fs := Lint(c.data, "t.yaml")
-		require.NotEmpty(t, fs)
-		require.Equal(t, c.want, fs[len(fs)-1].String())
+		if len(fs) == 0 {
+			t.Fatalf("Lint(%q) found nothing, want %q", c.data, c.want)
+		}
+		if got := fs[len(fs)-1].String(); got != c.want {
+			t.Fatalf("Lint(%q): last finding %q, want %q", c.data, got, c.want)
+		}
 	}
 }
 
@@ -190,13 +226,21 @@ func TestParseErrorFormat(t *testing.T) {
 	// The format promised in the package documentation, column 14 counted by hand: "    zoom:    " is 13
 	// characters.
 	_, err := Parse(edit(7, "    zoom:    31"), "phone.yaml")
-	require.EqualError(t, err, "phone.yaml:7:14: bands[1].zoom: 31 is outside [0, 30]")
+	if want := "phone.yaml:7:14: bands[1].zoom: 31 is outside [0, 30]"; err == nil || err.Error() != want {
+		t.Fatalf("Parse(zoom 31, \"phone.yaml\") = %v, want error %q", err, want)
+	}
 	var errs Errors
-	require.ErrorAs(t, err, &errs)
-	require.Equal(t, Problem{Kind: KindRange, Field: "bands[1].zoom", Msg: "31 is outside [0, 30]", File: "phone.yaml", Line: 7, Col: 14}, *errs[0])
+	if !errors.As(err, &errs) {
+		t.Fatalf("Parse(zoom 31, \"phone.yaml\"): error %v (%T) is not an Errors", err, err)
+	}
+	if want := (Problem{Kind: KindRange, Field: "bands[1].zoom", Msg: "31 is outside [0, 30]", File: "phone.yaml", Line: 7, Col: 14}); *errs[0] != want {
+		t.Fatalf("Parse(zoom 31, \"phone.yaml\"): first problem %+v, want %+v", *errs[0], want)
+	}
 
 	_, err = Parse(edit(7, "    zoom:    31"), "")
-	require.EqualError(t, err, "input:7:14: bands[1].zoom: 31 is outside [0, 30]", "an empty name is called input")
+	if want := "input:7:14: bands[1].zoom: 31 is outside [0, 30]"; err == nil || err.Error() != want {
+		t.Fatalf("Parse(zoom 31, \"\") = %v, want error %q (an empty name is called input)", err, want)
+	}
 }
 
 func TestSyntaxErrorLines(t *testing.T) {
@@ -224,7 +268,9 @@ func TestSyntaxErrorLines(t *testing.T) {
 	}
 	for _, c := range cases {
 		fs := Lint([]byte(c.in), "s.yaml")
-		require.NotEmpty(t, fs, "%q", c.in)
+		if len(fs) == 0 {
+			t.Fatalf("Lint(%q) found nothing, want a syntax error", c.in)
+		}
 		var f *Finding
 		for i := range fs {
 			if fs[i].Kind == KindSyntax {
@@ -232,10 +278,14 @@ func TestSyntaxErrorLines(t *testing.T) {
 				break
 			}
 		}
-		require.NotNil(t, f, "%q: no syntax finding in %v", c.in, fs)
-		require.Equal(t, c.wantLine, f.Line, "%q: %v", c.in, f)
-		if c.wantCol != 0 {
-			require.Equal(t, c.wantCol, f.Col, "%q: %v", c.in, f)
+		if f == nil {
+			t.Fatalf("Lint(%q): no syntax finding in %v", c.in, fs)
+		}
+		if f.Line != c.wantLine {
+			t.Fatalf("Lint(%q): %v: line %d, want %d", c.in, f, f.Line, c.wantLine)
+		}
+		if c.wantCol != 0 && f.Col != c.wantCol {
+			t.Fatalf("Lint(%q): %v: column %d, want %d", c.in, f, f.Col, c.wantCol)
 		}
 	}
 }
@@ -247,11 +297,17 @@ func TestParseJSONRuleFile(t *testing.T) {
 		"\t\t{\"zoom\": 15, \"pitch_deg\": 60}\n\t],\n\t\"hysteresis_kmh\": 9, \"max_zoom_rate_per_s\": 0.5, \"max_pitch_rate_deg_per_s\": 10,\n" +
 		"\t\"turn\": {\"within_m\": 200, \"min_angle_deg\": 30, \"zoom\": 16.5},\n\t\"min_zoom\": 14, \"max_zoom\": 18, \"max_turn_rate_deg_per_s\": 90\n}\n"
 	s, err := Parse([]byte(data), "rules.json")
-	require.NoError(t, err)
-	require.Equal(t, *worked(), *s)
+	if err != nil {
+		t.Fatalf("Parse(rules.json): %v", err)
+	}
+	if !reflect.DeepEqual(*s, *worked()) {
+		t.Fatalf("Parse(rules.json) = %s, want %s (worked())", setText(s), setText(worked()))
+	}
 	_, err = Parse([]byte(strings.Replace(data, `"zoom": 16,`, `"zoom": 160,`, 1)), "rules.json")
 	// Line 4 is "\t\t{"below_kmh": 72, "zoom": 160, ...": two tabs and 26 characters come before 160.
-	require.EqualError(t, err, "rules.json:4:29: bands[1].zoom: 160 is outside [0, 30]")
+	if want := "rules.json:4:29: bands[1].zoom: 160 is outside [0, 30]"; err == nil || err.Error() != want {
+		t.Fatalf("Parse(rules.json with zoom 160) = %v, want error %q", err, want)
+	}
 }
 
 func TestParseYAMLFeatures(t *testing.T) {
@@ -261,18 +317,26 @@ band: &b {zoom: 0x10, pitch_deg: 5_0}
 bands: [{below_kmh: 36, zoom: 17, pitch_deg: 40}, {below_kmh: 72, zoom: 16, pitch_deg: 50}, {zoom: 15, pitch_deg: 60}]
 `
 	fs := Lint([]byte(data), "a.yaml")
-	require.Contains(t, briefs(fs), "2:1 error unknown-field band")
+	if want := "2:1 error unknown-field band"; !slices.Contains(briefs(fs), want) {
+		t.Fatalf("Lint(anchors and flow style) = %q, want it to hold %q; findings:\n%s", briefs(fs), want, findingsText(fs))
+	}
 
 	s, err := Parse([]byte(strings.Replace(baseYAML, "  - below_kmh: 72\n    zoom: 16\n    pitch_deg: 50\n",
 		"  - &mid\n    below_kmh: 72\n    zoom: 0x10\n    pitch_deg: 5_0\n", 1)), "a.yaml")
-	require.NoError(t, err)
-	require.Equal(t, *worked(), *s)
+	if err != nil {
+		t.Fatalf("Parse(hex and underscores): %v", err)
+	}
+	if !reflect.DeepEqual(*s, *worked()) {
+		t.Fatalf("Parse(hex and underscores) = %s, want %s (worked())", setText(s), setText(worked()))
+	}
 
 	// An alias used as a band: its fields are checked where they are written.
 	alias := strings.Replace(baseYAML, "  - zoom: 15\n    pitch_deg: 60\n", "  - *mid\n", 1)
 	alias = strings.Replace(alias, "  - below_kmh: 72", "  - &mid\n    below_kmh: 72", 1)
 	fs = Lint([]byte(alias), "a.yaml")
-	require.Equal(t, []string{"7:16 error last-band-edge bands[2].below_kmh"}, briefs(fs), "%s", findingsText(fs))
+	if got, want := briefs(fs), []string{"7:16 error last-band-edge bands[2].below_kmh"}; !slices.Equal(got, want) {
+		t.Fatalf("Lint(an alias as a band) = %q, want %q; findings:\n%s", got, want, findingsText(fs))
+	}
 }
 
 func TestLintLimits(t *testing.T) {
@@ -290,29 +354,51 @@ func TestLintLimits(t *testing.T) {
 		b.WriteString("]\n")
 	}
 	fs := Lint([]byte(b.String()), "bomb.yaml")
-	require.Len(t, fs, 1)
-	require.Equal(t, KindSyntax, fs[0].Kind)
-	require.Contains(t, fs[0].Message, "more than 10000 values")
+	if len(fs) != 1 {
+		t.Fatalf("Lint(alias bomb) found %d, want 1:\n%s", len(fs), findingsText(fs))
+	}
+	if fs[0].Kind != KindSyntax {
+		t.Fatalf("Lint(alias bomb): %v: kind %v, want %v", fs[0], fs[0].Kind, KindSyntax)
+	}
+	if want := "more than 10000 values"; !strings.Contains(fs[0].Message, want) {
+		t.Fatalf("Lint(alias bomb): message %q, want it to contain %q", fs[0].Message, want)
+	}
 
 	deep := strings.Repeat("[", 200) + strings.Repeat("]", 200)
 	fs = Lint([]byte(deep), "deep.yaml")
-	require.NotEmpty(t, fs)
-	require.Equal(t, SeverityError, fs[0].Severity)
+	if len(fs) == 0 {
+		t.Fatalf("Lint(200 nested lists) found nothing, want an error")
+	}
+	if fs[0].Severity != SeverityError {
+		t.Fatalf("Lint(200 nested lists): %v: severity %v, want %v", fs[0], fs[0].Severity, SeverityError)
+	}
 }
 
 func TestRuleFilesLintClean(t *testing.T) {
 	// The two invented rule sets in fixtures/rules must have neither errors nor warnings.
 	files, err := filepath.Glob("../fixtures/rules/*.yaml")
-	require.NoError(t, err)
-	require.Len(t, files, 2)
+	if err != nil {
+		t.Fatalf("Glob(../fixtures/rules/*.yaml): %v", err)
+	}
+	if len(files) != 2 {
+		t.Fatalf("../fixtures/rules/*.yaml = %q, want 2 files", files)
+	}
 	for _, f := range files {
 		data, err := os.ReadFile(f)
-		require.NoError(t, err)
+		if err != nil {
+			t.Fatal(err)
+		}
 		name := filepath.Base(f)
-		require.Empty(t, Lint(data, name), "%s:\n%s", name, findingsText(Lint(data, name)))
+		if fs := Lint(data, name); len(fs) != 0 {
+			t.Fatalf("Lint(%s) found:\n%s", name, findingsText(fs))
+		}
 		s, err := Parse(data, name)
-		require.NoError(t, err)
-		require.GreaterOrEqual(t, len(s.Bands), 4, "%s: a band per kind of road", name)
+		if err != nil {
+			t.Fatalf("Parse(%s): %v", name, err)
+		}
+		if !(len(s.Bands) >= 4) {
+			t.Fatalf("%s: %d bands, want ≥ 4 (a band per kind of road)", name, len(s.Bands))
+		}
 	}
 }
 
@@ -322,47 +408,87 @@ func TestRuleFilesBehave(t *testing.T) {
 	// set at the same speed is in its rural band (80 to 110 km/h): 14.5 and 55°; at 130 km/h motorway.
 	phone := mustParseFile(t, "phone.yaml")
 	z, p, err := phone.Evaluate([]Sample{{TS: 0, SpeedMps: 100 / 3.6, TurnDistM: ptr(300)}})
-	require.NoError(t, err)
-	require.Equal(t, []float64{14.5}, z)
-	require.Equal(t, []float64{60}, p)
+	if err != nil {
+		t.Fatalf("phone: Evaluate(100 km/h, turn at 300 m): %v", err)
+	}
+	if want := []float64{14.5}; !slices.Equal(z, want) {
+		t.Fatalf("phone: Evaluate(100 km/h, turn at 300 m) zoom = %v, want %v", z, want)
+	}
+	if want := []float64{60}; !slices.Equal(p, want) {
+		t.Fatalf("phone: Evaluate(100 km/h, turn at 300 m) pitch = %v, want %v", p, want)
+	}
 	z, _, err = phone.Evaluate([]Sample{{TS: 0, SpeedMps: 100 / 3.6, TurnDistM: ptr(200)}})
-	require.NoError(t, err)
-	require.Equal(t, []float64{17}, z)
+	if err != nil {
+		t.Fatalf("phone: Evaluate(100 km/h, turn at 200 m): %v", err)
+	}
+	if want := []float64{17}; !slices.Equal(z, want) {
+		t.Fatalf("phone: Evaluate(100 km/h, turn at 200 m) zoom = %v, want %v", z, want)
+	}
 
 	incar := mustParseFile(t, "incar.yaml")
 	z, p, err = incar.Evaluate([]Sample{{TS: 0, SpeedMps: 100 / 3.6}, {TS: 60, SpeedMps: 130 / 3.6}})
-	require.NoError(t, err)
-	require.Equal(t, []float64{14.5, 13.75}, z)
-	require.Equal(t, []float64{55, 62}, p)
+	if err != nil {
+		t.Fatalf("incar: Evaluate(100 km/h, then 130 km/h): %v", err)
+	}
+	if want := []float64{14.5, 13.75}; !slices.Equal(z, want) {
+		t.Fatalf("incar: Evaluate(100 km/h, then 130 km/h) zoom = %v, want %v", z, want)
+	}
+	if want := []float64{55, 62}; !slices.Equal(p, want) {
+		t.Fatalf("incar: Evaluate(100 km/h, then 130 km/h) pitch = %v, want %v", p, want)
+	}
 }
 
 func mustParseFile(t testing.TB, name string) *Set {
 	t.Helper()
 	s, err := Parse(mustReadRuleFile(t, name), name)
-	require.NoError(t, err)
+	if err != nil {
+		t.Fatalf("Parse(%s): %v", name, err)
+	}
 	return s
 }
 
 func TestFindingText(t *testing.T) {
 	f := Finding{Severity: SeverityWarning, Kind: KindTurnInert, File: "a.yaml", Line: 3, Col: 9, Field: "turn.zoom", Message: "m"}
-	require.Equal(t, "a.yaml:3:9: warning: turn.zoom: m", f.String())
+	if got, want := f.String(), "a.yaml:3:9: warning: turn.zoom: m"; got != want {
+		t.Fatalf("Finding{Col: 9}.String() = %q, want %q", got, want)
+	}
 	f.Col = 0
-	require.Equal(t, "a.yaml:3: warning: turn.zoom: m", f.String())
+	if got, want := f.String(), "a.yaml:3: warning: turn.zoom: m"; got != want {
+		t.Fatalf("Finding{Col: 0}.String() = %q, want %q", got, want)
+	}
 	b, err := Severity(SeverityError).MarshalText()
-	require.NoError(t, err)
-	require.Equal(t, "error", string(b))
+	if err != nil {
+		t.Fatalf("SeverityError.MarshalText(): %v", err)
+	}
+	if got, want := string(b), "error"; got != want {
+		t.Fatalf("SeverityError.MarshalText() = %q, want %q", got, want)
+	}
 	b, err = KindWideHysteresis.MarshalText()
-	require.NoError(t, err)
-	require.Equal(t, "wide-hysteresis", string(b))
-	require.Equal(t, "kind(99)", ProblemKind(99).String())
-	require.Equal(t, "severity(0)", Severity(0).String())
-	require.Equal(t, "x: m", (&Problem{Field: "x", Msg: "m"}).Error())
-	require.Equal(t, "m", (&Problem{Msg: "m"}).Error())
+	if err != nil {
+		t.Fatalf("KindWideHysteresis.MarshalText(): %v", err)
+	}
+	if got, want := string(b), "wide-hysteresis"; got != want {
+		t.Fatalf("KindWideHysteresis.MarshalText() = %q, want %q", got, want)
+	}
+	if got, want := ProblemKind(99).String(), "kind(99)"; got != want {
+		t.Fatalf("ProblemKind(99).String() = %q, want %q", got, want)
+	}
+	if got, want := Severity(0).String(), "severity(0)"; got != want {
+		t.Fatalf("Severity(0).String() = %q, want %q", got, want)
+	}
+	if got, want := (&Problem{Field: "x", Msg: "m"}).Error(), "x: m"; got != want {
+		t.Fatalf("(&Problem{Field: \"x\", Msg: \"m\"}).Error() = %q, want %q", got, want)
+	}
+	if got, want := (&Problem{Msg: "m"}).Error(), "m"; got != want {
+		t.Fatalf("(&Problem{Msg: \"m\"}).Error() = %q, want %q", got, want)
+	}
 }
 
 func mustReadRuleFile(t testing.TB, name string) []byte {
 	t.Helper()
 	data, err := os.ReadFile(filepath.Join("..", "fixtures", "rules", name))
-	require.NoError(t, err)
+	if err != nil {
+		t.Fatal(err)
+	}
 	return data
 }

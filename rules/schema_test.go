@@ -6,36 +6,70 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"testing"
 
 	"github.com/santhosh-tekuri/jsonschema/v6"
-	"github.com/stretchr/testify/require"
 	"go.yaml.in/yaml/v3"
 	"pgregory.net/rapid"
 )
 
 func TestSchemaCompiles(t *testing.T) {
 	sch, err := compiledSchema()
-	require.NoError(t, err)
-	require.NotNil(t, sch)
+	if err != nil {
+		t.Fatalf("compiledSchema: %v", err)
+	}
+	if sch == nil {
+		t.Fatalf("compiledSchema() = nil, nil; want a schema")
+	}
 	var doc map[string]any
-	require.NoError(t, json.Unmarshal(Schema(), &doc))
-	require.Equal(t, SchemaID, doc["$id"])
-	require.Equal(t, "https://json-schema.org/draft/2020-12/schema", doc["$schema"])
-	require.Equal(t, false, doc["additionalProperties"])
+	if err := json.Unmarshal(Schema(), &doc); err != nil {
+		t.Fatalf("Schema() is not a JSON object: %v", err)
+	}
+	if got := doc["$id"]; got != SchemaID {
+		t.Fatalf("schema $id = %#v, want %q (SchemaID)", got, SchemaID)
+	}
+	if got, want := doc["$schema"], "https://json-schema.org/draft/2020-12/schema"; got != want {
+		t.Fatalf("schema $schema = %#v, want %q", got, want)
+	}
+	if got := doc["additionalProperties"]; got != false {
+		t.Fatalf("schema additionalProperties = %#v, want false", got)
+	}
 	c := Schema()
 	c[0] = 'x'
-	require.Equal(t, byte('{'), Schema()[0], "Schema returns a copy")
+	if got := Schema()[0]; got != '{' {
+		t.Fatalf("Schema()[0] = %q after writing to an earlier result, want '{' (Schema returns a copy)", got)
+	}
+}
+
+// sameStrings reports whether list, a decoded JSON array, holds exactly the strings want in some
+// order, each as many times.
+func sameStrings(list any, want ...string) bool {
+	items, ok := list.([]any)
+	if !ok || len(items) != len(want) {
+		return false
+	}
+	got := make([]string, len(items))
+	for i, v := range items {
+		if got[i], ok = v.(string); !ok {
+			return false
+		}
+	}
+	return slices.Equal(slices.Sorted(slices.Values(got)), slices.Sorted(slices.Values(want)))
 }
 
 // schemaField finds the schema of a property, following a $ref into $defs.
 func schemaField(t *testing.T, root map[string]any, props map[string]any, name string) map[string]any {
 	t.Helper()
 	f, ok := props[name].(map[string]any)
-	require.True(t, ok, "schema has no property %s", name)
+	if !ok {
+		t.Fatalf("schema has no property %s", name)
+	}
 	if ref, ok := f["$ref"].(string); ok {
 		const prefix = "#/$defs/"
-		require.Equal(t, prefix, ref[:len(prefix)])
+		if got := ref[:len(prefix)]; got != prefix {
+			t.Fatalf("property %s: $ref %q, want one starting %q", name, ref, prefix)
+		}
 		f = root["$defs"].(map[string]any)[ref[len(prefix):]].(map[string]any)
 	}
 	return f
@@ -44,7 +78,9 @@ func schemaField(t *testing.T, root map[string]any, props map[string]any, name s
 func TestSchemaRangesMatchValidate(t *testing.T) {
 	// The schema's bounds and fieldRanges (which Validate uses) must be the same intervals.
 	var root map[string]any
-	require.NoError(t, json.Unmarshal(schemaJSON, &root))
+	if err := json.Unmarshal(schemaJSON, &root); err != nil {
+		t.Fatalf("schemaJSON is not a JSON object: %v", err)
+	}
 	band := root["$defs"].(map[string]any)["band"].(map[string]any)
 	turn := root["properties"].(map[string]any)["turn"].(map[string]any)
 	objects := map[string]map[string]any{
@@ -60,7 +96,9 @@ func TestSchemaRangesMatchValidate(t *testing.T) {
 				continue
 			}
 			want, ok := fieldRanges[name]
-			require.True(t, ok, "%s.%s has no entry in fieldRanges", obj, name)
+			if !ok {
+				t.Fatalf("%s.%s has no entry in fieldRanges", obj, name)
+			}
 			got := interval{lo: math.Inf(-1), hi: math.Inf(1), loOpen: true, hiOpen: true}
 			if v, ok := f["minimum"].(float64); ok {
 				got.lo, got.loOpen = v, false
@@ -74,35 +112,62 @@ func TestSchemaRangesMatchValidate(t *testing.T) {
 			if v, ok := f["exclusiveMaximum"].(float64); ok {
 				got.hi, got.hiOpen = v, true
 			}
-			require.Equal(t, want, got, "%s.%s: schema %v, fieldRanges %v", obj, name, got, want)
+			if got != want {
+				t.Fatalf("%s.%s: schema %v, fieldRanges %v", obj, name, got, want)
+			}
 			checked++
 		}
 	}
-	require.Equal(t, len(fieldRanges)+1, checked, "every numeric field checked (zoom twice: bands and turn)")
+	if want := len(fieldRanges) + 1; checked != want {
+		t.Fatalf("checked %d numeric fields, want %d (every numeric field; zoom twice: bands and turn)", checked, want)
+	}
 
-	require.ElementsMatch(t, []any{"bands", "hysteresis_kmh", "max_zoom_rate_per_s", "max_pitch_rate_deg_per_s", "turn",
-		"min_zoom", "max_zoom", "max_turn_rate_deg_per_s"}, root["required"])
-	require.ElementsMatch(t, []any{"within_m", "min_angle_deg", "zoom"}, turn["required"])
-	require.ElementsMatch(t, []any{"zoom", "pitch_deg"}, band["required"], "below_kmh is not required of a band")
+	for _, c := range []struct {
+		obj  string
+		list any
+		want []string
+	}{
+		{"the root", root["required"], []string{"bands", "hysteresis_kmh", "max_zoom_rate_per_s", "max_pitch_rate_deg_per_s", "turn",
+			"min_zoom", "max_zoom", "max_turn_rate_deg_per_s"}},
+		{"turn", turn["required"], []string{"within_m", "min_angle_deg", "zoom"}},
+		{"band", band["required"], []string{"zoom", "pitch_deg"}}, // below_kmh is not required of a band
+	} {
+		if !sameStrings(c.list, c.want...) {
+			t.Fatalf("schema: %s requires %v, want %q in any order", c.obj, c.list, c.want)
+		}
+	}
 }
 
-func schemaAccepts(t require.TestingT, v any) bool {
+func schemaAccepts(t rapid.TB, v any) bool {
+	t.Helper()
 	data, err := json.Marshal(v)
-	require.NoError(t, err)
+	if err != nil {
+		t.Fatalf("json.Marshal(%+v): %v", v, err)
+	}
 	inst, err := jsonschema.UnmarshalJSON(bytes.NewReader(data))
-	require.NoError(t, err)
+	if err != nil {
+		t.Fatalf("jsonschema.UnmarshalJSON(%s): %v", data, err)
+	}
 	sch, err := compiledSchema()
-	require.NoError(t, err)
+	if err != nil {
+		t.Fatalf("compiledSchema: %v", err)
+	}
 	return sch.Validate(inst) == nil
 }
 
 func TestSchemaAcceptsRuleFiles(t *testing.T) {
 	for _, name := range []string{"phone.yaml", "incar.yaml"} {
 		var v any
-		require.NoError(t, yaml.Unmarshal(mustReadRuleFile(t, name), &v))
-		require.True(t, schemaAccepts(t, v), name)
+		if err := yaml.Unmarshal(mustReadRuleFile(t, name), &v); err != nil {
+			t.Fatalf("yaml.Unmarshal(%s): %v", name, err)
+		}
+		if !schemaAccepts(t, v) {
+			t.Fatalf("the schema refuses %s", name)
+		}
 	}
-	require.True(t, schemaAccepts(t, worked()))
+	if !schemaAccepts(t, worked()) {
+		t.Fatalf("the schema refuses worked()")
+	}
 }
 
 func TestSchemaBandLayout(t *testing.T) {
@@ -128,8 +193,12 @@ func TestSchemaBandLayout(t *testing.T) {
 		{"no bands", mk(), false, false},
 	}
 	for _, c := range cases {
-		require.Equal(t, c.schema, schemaAccepts(t, c.set), c.name)
-		require.Equal(t, c.full, c.set.Validate() == nil, c.name)
+		if got := schemaAccepts(t, c.set); got != c.schema {
+			t.Fatalf("%s: schema accepts = %v, want %v", c.name, got, c.schema)
+		}
+		if err := c.set.Validate(); (err == nil) != c.full {
+			t.Fatalf("%s: Validate() = %v, want accepted %v", c.name, err, c.full)
+		}
 	}
 }
 
@@ -172,7 +241,9 @@ func TestSchemaAgreesWithValidate(t *testing.T) {
 		rangeOK := true
 		var errs Errors
 		if err := s.Validate(); err != nil {
-			require.True(t, errors.As(err, &errs))
+			if !errors.As(err, &errs) {
+				t.Fatalf("Validate() = %v (%T), want Errors", err, err)
+			}
 		}
 		for _, e := range errs {
 			switch e.Kind {

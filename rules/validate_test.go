@@ -3,16 +3,19 @@ package rules
 import (
 	"errors"
 	"math"
+	"slices"
 	"testing"
-
-	"github.com/stretchr/testify/require"
 )
 
 func TestValidateAcceptsWorked(t *testing.T) {
-	require.NoError(t, worked().Validate())
+	if err := worked().Validate(); err != nil {
+		t.Fatalf("worked().Validate() = %v, want nil", err)
+	}
 	one := &Set{Bands: []Band{{Zoom: 16, PitchDeg: 0}}, MaxZoomRatePerS: 1, MaxPitchRateDegPerS: 1,
 		Turn: Turn{WithinM: 0, MinAngleDeg: 180, Zoom: 30}, MinZoom: 0, MaxZoom: 30, MaxTurnRateDegPerS: 1}
-	require.NoError(t, one.Validate(), "one band, every field at an inclusive bound")
+	if err := one.Validate(); err != nil {
+		t.Fatalf("Validate() of one band, every field at an inclusive bound = %v, want nil", err)
+	}
 }
 
 func TestValidateAllocatesNothing(t *testing.T) {
@@ -73,14 +76,20 @@ func TestValidateProblems(t *testing.T) {
 			c.edit(s)
 			err := s.Validate()
 			var errs Errors
-			require.True(t, errors.As(err, &errs), "Validate() = %v, want Errors", err)
+			if !errors.As(err, &errs) {
+				t.Fatalf("Validate() = %v, want Errors", err)
+			}
 			var got []string
 			for _, e := range errs {
 				got = append(got, e.Kind.String()+" "+e.Error())
 			}
-			require.Equal(t, c.want, got)
+			if !slices.Equal(got, c.want) {
+				t.Fatalf("Validate() problems = %q, want %q", got, c.want)
+			}
 			var fe *Problem
-			require.True(t, errors.As(err, &fe), "each problem is reachable with errors.As")
+			if !errors.As(err, &fe) {
+				t.Fatalf("Validate() = %v: errors.As finds no *Problem, want each problem reachable", err)
+			}
 		})
 	}
 }
@@ -88,7 +97,9 @@ func TestValidateProblems(t *testing.T) {
 func TestWarnings(t *testing.T) {
 	// worked() has none: zooms fall, hysteresis 9 < 36 (first band) and 2·9 < 36 (band 1), turn zoom
 	// 16.5 is above bands 1 and 2.
-	require.Empty(t, worked().warnings())
+	if ws := worked().warnings(); len(ws) != 0 {
+		t.Fatalf("worked().warnings() = %v, want none", ws)
+	}
 	cases := []struct {
 		name string
 		edit func(*Set)
@@ -125,12 +136,16 @@ func TestWarnings(t *testing.T) {
 		t.Run(c.name, func(t *testing.T) {
 			s := worked()
 			c.edit(s)
-			require.NoError(t, s.Validate(), "warnings are looked for on valid sets only")
+			if err := s.Validate(); err != nil {
+				t.Fatalf("Validate() = %v, want nil (warnings are looked for on valid sets only)", err)
+			}
 			var got []string
 			for _, w := range s.warnings() {
 				got = append(got, w.Kind.String()+" "+w.Error())
 			}
-			require.Equal(t, c.want, got)
+			if !slices.Equal(got, c.want) {
+				t.Fatalf("warnings() = %q, want %q", got, c.want)
+			}
 		})
 	}
 }
