@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"slices"
+	"strconv"
 	"strings"
 	"text/tabwriter"
 
@@ -70,12 +71,38 @@ type Report struct {
 	// tolerance) among failed and borderline cases, worst first.
 	Worst []WorstDiff `json:"worst"`
 	// Stray lists answer lines that matched no case, or were unreadable.
-	Stray []string     `json:"stray,omitempty"`
-	Cases []CaseResult `json:"-"`
+	Stray []string `json:"stray,omitempty"`
+	// Trouble is what went wrong with a live implementation, if anything:
+	// it hung, crashed, exited early or printed what is not an answer.
+	Trouble []string `json:"trouble,omitempty"`
+	// NotPassed lists every case that failed, is missing or is borderline,
+	// in the order they were decided (the text report shows the worst;
+	// machines get all).
+	NotPassed []CaseResult `json:"not_passed"`
+	Cases     []CaseResult `json:"-"`
 }
 
-// Failed reports whether any case failed or is missing.
-func (r *Report) Failed() bool { return r.Counts.Fail > 0 || r.Counts.Missing > 0 }
+// Checked returns the number of cases compared with an answer (skipped and
+// missing ones are not).
+func (c Counts) Checked() int { return c.Pass + c.Borderline + c.Fail }
+
+// Failed reports whether any case failed or is missing, or no case was
+// checked at all: a run that compared nothing proves nothing.
+func (r *Report) Failed() bool {
+	return r.Counts.Fail > 0 || r.Counts.Missing > 0 || r.Counts.Checked() == 0
+}
+
+// Verdict says in a few words why the report passes or fails.
+func (r *Report) Verdict() string {
+	c := r.Counts
+	switch {
+	case c.Checked() == 0 && c.Total() == 0:
+		return "no cases: the corpus is empty"
+	case c.Checked() == 0:
+		return fmt.Sprintf("no case checked: all %d skipped or missing", c.Total())
+	}
+	return fmt.Sprintf("%d failed, %d missing", c.Fail, c.Missing)
+}
 
 // Checker accumulates case results into a report.
 type Checker struct {
@@ -140,12 +167,21 @@ func (ck *Checker) trimWorst() {
 	}
 }
 
+// Trouble records what went wrong with a live implementation.
+func (ck *Checker) Trouble(msg string) { ck.r.Trouble = append(ck.r.Trouble, msg) }
+
 // Report returns the report so far.
 func (ck *Checker) Report() *Report {
 	ck.trimWorst()
 	ck.r.Worst = append([]WorstDiff(nil), ck.worst...)
 	if ck.r.Worst == nil {
 		ck.r.Worst = []WorstDiff{}
+	}
+	ck.r.NotPassed = []CaseResult{}
+	for _, cr := range ck.r.Cases {
+		if cr.Status != Pass && cr.Status != Skipped {
+			ck.r.NotPassed = append(ck.r.NotPassed, cr)
+		}
 	}
 	return &ck.r
 }
@@ -185,8 +221,12 @@ func (r *Report) WriteText(w io.Writer) error {
 	if r.Failed() {
 		verdict = "FAIL"
 	}
-	fmt.Fprintf(w, "%s: %d cases under the %s profile: %d pass, %d borderline, %d fail, %d missing, %d skipped\n\n",
-		verdict, c.Total(), r.Profile, c.Pass, c.Borderline, c.Fail, c.Missing, c.Skipped)
+	fmt.Fprintf(w, "%s: %d cases under the %s profile: %d pass, %d borderline, %d fail, %d missing, %d skipped (%s of the corpus)\n",
+		verdict, c.Total(), r.Profile, c.Pass, c.Borderline, c.Fail, c.Missing, c.Skipped, percent(c.Skipped, c.Total()))
+	if c.Checked() == 0 {
+		fmt.Fprintf(w, "%s: nothing was compared, so nothing is shown to agree\n", r.Verdict())
+	}
+	fmt.Fprintln(w)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "op / family\tpass\tborderline\tfail\tmissing\tskipped\t")
 	for _, op := range sortedKeys(r.ByOp) {
@@ -237,6 +277,14 @@ func (r *Report) WriteText(w io.Writer) error {
 		fmt.Fprintf(w, "stray answer: %s\n", s)
 	}
 	return nil
+}
+
+// percent formats n/total as a percentage, "0%" when total is 0.
+func percent(n, total int) string {
+	if total == 0 {
+		return "0%"
+	}
+	return strconv.FormatFloat(100*float64(n)/float64(total), 'g', 3, 64) + "%"
 }
 
 func sortedKeys[V any](m map[string]V) []string {
@@ -308,7 +356,7 @@ func (r *Report) WriteJUnit(w io.Writer) error {
 		}
 		switch cr.Status {
 		case Fail, Missing:
-			jc.Failure = &junitFailure{Message: cr.Status.String(), Type: cr.Status.String(), Text: describe()}
+			jc.Failure = &junitFailure{Message: cr.headline(), Type: cr.Status.String(), Text: describe()}
 			s.Failures++
 			out.Failures++
 		case Skipped:
@@ -335,4 +383,24 @@ func (r *Report) WriteJUnit(w io.Writer) error {
 	}
 	_, err := io.WriteString(w, "\n")
 	return err
+}
+
+// headline says in one line what went wrong with a case: its first
+// difference with the field, both values and how far apart, or its note.
+func (cr *CaseResult) headline() string {
+	if len(cr.Diffs) == 0 {
+		if cr.Note != "" {
+			return cr.Status.String() + ": " + cr.Note
+		}
+		return cr.Status.String()
+	}
+	d := cr.Diffs[0]
+	msg := fmt.Sprintf("%s: %s: got %s, want %s", cr.Status, d.Path, d.Got, d.Want)
+	if d.Diff > 0 {
+		msg += fmt.Sprintf(" (off by %s, %s tolerance %s)", fmtF(d.Diff), d.Quantity, fmtF(d.Allowed))
+	}
+	if n := len(cr.Diffs); n > 1 {
+		msg += fmt.Sprintf(" and %d more", n-1)
+	}
+	return msg
 }

@@ -3,6 +3,7 @@ package check
 import (
 	"bytes"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"math"
 	"os"
@@ -80,7 +81,9 @@ var Profiles = map[string]Profile{
 
 // LoadProfile returns the named profile with the overrides of a YAML file
 // (when file is not empty): `base: strict|field` and any of the quantities
-// as {abs, rel}.
+// as {abs, rel}. A key the file format does not have, a value of the wrong
+// kind, or a tolerance that is negative or not finite is an error naming
+// the file, the line and the key.
 func LoadProfile(name, file string) (Profile, error) {
 	p, ok := Profiles[name]
 	if !ok {
@@ -93,40 +96,83 @@ func LoadProfile(name, file string) (Profile, error) {
 	if err != nil {
 		return p, err
 	}
-	var head struct {
-		Base string `yaml:"base"`
-	}
-	if err := yaml.Unmarshal(data, &head); err != nil {
+	var doc yaml.Node
+	if err := yaml.Unmarshal(data, &doc); err != nil {
 		return p, fmt.Errorf("%s: %v", file, err)
 	}
-	if head.Base != "" {
-		if p, ok = Profiles[head.Base]; !ok {
-			return p, fmt.Errorf("%s: base: unknown profile %q (known: field, strict)", file, head.Base)
+	if len(doc.Content) == 0 {
+		return p, fmt.Errorf("%s: empty: want base and tolerances, e.g. pixel_px: {abs: 0.5, rel: 0}", file)
+	}
+	root := doc.Content[0]
+	at := func(n *yaml.Node, format string, args ...any) error {
+		return fmt.Errorf("%s:%d:%d: %s", file, n.Line, n.Column, fmt.Sprintf(format, args...))
+	}
+	if root.Kind != yaml.MappingNode {
+		return p, at(root, "want a mapping of base and tolerances")
+	}
+	// The base first: the file's tolerances override it, whatever the order.
+	for k := 0; k+1 < len(root.Content); k += 2 {
+		if key, v := root.Content[k], root.Content[k+1]; key.Value == "base" {
+			if p, ok = Profiles[v.Value]; !ok {
+				return p, at(v, "base: unknown profile %q (known: field, strict)", v.Value)
+			}
 		}
 	}
-	// Decode over the base: what the file leaves out keeps the base's value.
-	dec := yaml.NewDecoder(strings.NewReader(string(data)))
-	dec.KnownFields(true)
-	var withBase struct {
-		Base    string `yaml:"base"`
-		Profile `yaml:",inline"`
-	}
-	withBase.Profile = p
-	if err := dec.Decode(&withBase); err != nil {
-		return p, fmt.Errorf("%s: %v", file, err)
-	}
-	q := withBase.Profile
-	for _, t := range []struct {
-		name string
-		tol  Tolerance
-	}{{"pixel_px", q.PixelPx}, {"depth_px", q.DepthPx}, {"ground_m", q.GroundM}, {"dist_m", q.DistM},
-		{"area_m2", q.AreaM2}, {"time_s", q.TimeS}, {"zoom", q.Zoom}, {"pitch_deg", q.PitchDeg}} {
-		if !(t.tol.Abs >= 0 && t.tol.Rel >= 0) || math.IsInf(t.tol.Abs, 0) || math.IsInf(t.tol.Rel, 0) {
-			return p, fmt.Errorf("%s: %s: abs and rel must be finite and non-negative", file, t.name)
+	q := p
+	fields := q.tolerances()
+	for k := 0; k+1 < len(root.Content); k += 2 {
+		key, v := root.Content[k], root.Content[k+1]
+		if key.Value == "base" {
+			continue
+		}
+		tol, ok := fields[key.Value]
+		if !ok {
+			return p, at(key, "unknown key %q (known: base, %s)", key.Value, strings.Join(toleranceNames, ", "))
+		}
+		if err := readTolerance(v, tol); err != nil {
+			return p, at(v, "%s: %v", key.Value, err)
 		}
 	}
 	q.Name = p.Name + "+" + file
 	return q, nil
+}
+
+// toleranceNames are the keys of a profile's tolerances, in file order.
+var toleranceNames = []string{"pixel_px", "depth_px", "ground_m", "dist_m", "area_m2", "time_s", "zoom", "pitch_deg"}
+
+// tolerances returns p's tolerances by key.
+func (p *Profile) tolerances() map[string]*Tolerance {
+	return map[string]*Tolerance{"pixel_px": &p.PixelPx, "depth_px": &p.DepthPx, "ground_m": &p.GroundM,
+		"dist_m": &p.DistM, "area_m2": &p.AreaM2, "time_s": &p.TimeS, "zoom": &p.Zoom, "pitch_deg": &p.PitchDeg}
+}
+
+// readTolerance reads {abs, rel} from n over t: what n leaves out keeps
+// t's value.
+func readTolerance(n *yaml.Node, t *Tolerance) error {
+	if n.Kind != yaml.MappingNode {
+		return fmt.Errorf("want {abs: …, rel: …}, got %q", n.Value)
+	}
+	for k := 0; k+1 < len(n.Content); k += 2 {
+		key, v := n.Content[k], n.Content[k+1]
+		var dst *float64
+		switch key.Value {
+		case "abs":
+			dst = &t.Abs
+		case "rel":
+			dst = &t.Rel
+		default:
+			return fmt.Errorf("line %d: unknown key %q (known: abs, rel)", key.Line, key.Value)
+		}
+		x, err := strconv.ParseFloat(v.Value, 64)
+		if v.Kind != yaml.ScalarNode || (err != nil && !errors.Is(err, strconv.ErrRange)) {
+			return fmt.Errorf("%s = %q: not a number", key.Value, v.Value)
+		}
+		if !(x >= 0) || math.IsInf(x, 0) {
+			return fmt.Errorf("%s = %s: must be finite and non-negative", key.Value, spec.FormatNumber(x))
+		}
+		*dst = x
+	}
+	return nil
 }
 
 // Status is the outcome of one case.
@@ -157,10 +203,29 @@ type Diff struct {
 	Diff     float64 `json:"diff"`    // in the quantity's unit (0 for a discrete mismatch)
 	Allowed  float64 `json:"allowed"` // the tolerance at want
 	// Ratio orders the worst differences: Diff/Allowed, or +Inf for a
-	// discrete mismatch outside the margin.
+	// discrete mismatch outside the margin (null in JSON).
 	Ratio      float64 `json:"ratio"`
 	Borderline bool    `json:"borderline,omitempty"`
 	Note       string  `json:"note,omitempty"`
+}
+
+// MarshalJSON writes d with each number that JSON cannot hold (the
+// infinite ratio of a discrete mismatch outside its margin, a difference
+// with an answer beyond the double range) as null.
+func (d Diff) MarshalJSON() ([]byte, error) {
+	type plain Diff
+	fin := func(v float64) *float64 {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil
+		}
+		return &v
+	}
+	return json.Marshal(struct {
+		plain
+		Diff    *float64 `json:"diff"`
+		Allowed *float64 `json:"allowed"`
+		Ratio   *float64 `json:"ratio"`
+	}{plain(d), fin(d.Diff), fin(d.Allowed), fin(d.Ratio)})
 }
 
 // differ collects the differences of one case.

@@ -156,3 +156,39 @@ func FuzzCompare(f *testing.F) {
 		}
 	})
 }
+
+// A discrete mismatch has an infinite ratio, which JSON cannot hold: the
+// report still encodes, with the ratio null (it printed "json: unsupported
+// value: +Inf" and wrote nothing, exactly when a discrete answer failed).
+func TestDiffJSONWithInfiniteRatio(t *testing.T) {
+	d := check.Diff{Path: "screen[0].in_view", Quantity: "pixel_px", Want: "true", Got: "false", Ratio: math.Inf(1)}
+	b, err := json.Marshal([]check.Diff{d})
+	if err != nil {
+		t.Fatalf("json.Marshal(%+v): %v", d, err)
+	}
+	if want := `[{"path":"screen[0].in_view","quantity":"pixel_px","want":"true","got":"false","diff":0,"allowed":0,"ratio":null}]`; string(b) != want {
+		t.Fatalf("json.Marshal = %s, want %s", b, want)
+	}
+}
+
+// A typo in a tolerance file gets a message in the file's own words, with
+// its line, never a Go type (it printed "field rell not found in type
+// check.Tolerance").
+func TestLoadProfileErrorsNameTheLine(t *testing.T) {
+	file := filepath.Join(t.TempDir(), "tol.yaml")
+	for _, c := range []struct{ text, want string }{
+		{"base: strict\npixel_px: {abs: 1, rell: 2}\n", `tol.yaml:2:11: pixel_px: line 2: unknown key "rell" (known: abs, rel)`},
+		{"base: strict\npixel_px: 1\n", `tol.yaml:2:11: pixel_px: want {abs: …, rel: …}, got "1"`},
+		{"pixel_px: {abs: x}\n", `tol.yaml:1:11: pixel_px: abs = "x": not a number`},
+		{"zoom: {rel: .nan}\n", `tol.yaml:1:7: zoom: rel = ".nan": not a number`},
+		{"zoom: {rel: 1e400}\n", `tol.yaml:1:7: zoom: rel = +Inf: must be finite and non-negative`},
+		{"base: loose\n", `tol.yaml:1:7: base: unknown profile "loose" (known: field, strict)`},
+		{"pixle_px: {abs: 1}\n", `tol.yaml:1:1: unknown key "pixle_px" (known: base, pixel_px, depth_px, ground_m, dist_m, area_m2, time_s, zoom, pitch_deg)`},
+	} {
+		os.WriteFile(file, []byte(c.text), 0o644)
+		_, err := check.LoadProfile("strict", file)
+		if err == nil || !strings.HasSuffix(err.Error(), c.want) || strings.Contains(err.Error(), "check.") {
+			t.Errorf("LoadProfile(%q) error = %v, want it to end %q", c.text, err, c.want)
+		}
+	}
+}

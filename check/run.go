@@ -56,8 +56,9 @@ func Run(cases []corpus.Case, opt RunOptions, ck *Checker) (*RunResult, error) {
 		return nil, fmt.Errorf("%v; stderr: %s", err, p.Stderr(5))
 	}
 	res := &RunResult{Ops: h.Ops}
+	r := runner{p: p, ck: ck, res: res, opt: &opt}
 	if h.Spec != wire.SpecVersion {
-		res.Trouble = append(res.Trouble, fmt.Sprintf("hello names spec %q, this corpus is %s", h.Spec, wire.SpecVersion))
+		r.trouble(fmt.Sprintf("hello names spec %q, this corpus is %s", h.Spec, wire.SpecVersion))
 	}
 	send := selectCases(cases, &opt, h.Ops, ck)
 	res.Sent = len(send)
@@ -71,12 +72,11 @@ func Run(cases []corpus.Case, opt RunOptions, ck *Checker) (*RunResult, error) {
 			}
 		})
 	}()
-	r := runner{p: p, ck: ck, res: res, opt: &opt}
 	r.collect(send)
 	select {
 	case err := <-writeErr:
 		if err != nil && r.dead == "" {
-			res.Trouble = append(res.Trouble, "writing requests: "+err.Error())
+			r.trouble("writing requests: " + err.Error())
 		}
 	case <-time.After(p.Timeout):
 	}
@@ -110,44 +110,69 @@ type runner struct {
 	dead string // why the cases left are not answered, once the process is gone
 }
 
-// collect reads the answers in order and checks each; then anything more
-// on stdout is stray, and the process should exit.
+// collect reads the answers and checks each against its case, matched by
+// id (SPEC §7): an answer for no case, or a second one for a case, is
+// stray; a case left without an answer when the process ends or hangs is
+// missing. Then anything more on stdout is stray, and the process should
+// exit.
 func (r *runner) collect(send []*corpus.Case) {
+	at := make(map[string]int, len(send))
 	for i, c := range send {
-		if r.dead != "" {
-			r.ck.Record(CaseResult{ID: c.ID, Op: c.Op, Family: c.Family, Status: Missing, Note: r.dead})
-			continue
-		}
+		at[c.ID] = i
+	}
+	done := make([]bool, len(send))
+	first, left := 0, len(send) // the first case not answered yet; how many are not
+	for left > 0 {
 		l, err := r.p.Next()
-		if err != nil && !errors.Is(err, live.ErrLineTooLong) {
-			r.lost(c, i, len(send), err)
+		switch {
+		case errors.Is(err, live.ErrLineTooLong):
+			r.trouble(fmt.Sprintf("an answer line longer than %d bytes while case %s's was due; not read", live.MaxLineBytes, send[first].ID))
+			r.ck.Stray(fmt.Sprintf("a line longer than %d bytes", live.MaxLineBytes))
 			continue
+		case err != nil:
+			r.lost(send, done, first, err)
+			return
 		}
 		r.res.Answered++
-		r.check(c, l, err)
-		if r.opt.Progress != nil && (i+1)%2000 == 0 {
-			r.opt.Progress(i+1, len(send))
+		id, isObj := corpus.AnswerID(l)
+		i, known := at[id]
+		switch {
+		case !isObj:
+			r.trouble(fmt.Sprintf("garbage on stdout while case %s's answer was due: %s", send[first].ID, spec.Excerpt(l, 80)))
+			r.ck.Stray("not a JSON object with a string id: " + spec.Excerpt(l, 80))
+			continue
+		case !known:
+			r.ck.Stray(fmt.Sprintf("answer for %q, which is no case sent: %s", id, spec.Excerpt(l, 80)))
+			continue
+		case done[i]:
+			r.ck.Stray(fmt.Sprintf("a second answer for %q (the first is used)", id))
+			continue
+		}
+		r.ck.Check(send[i], l)
+		done[i], left = true, left-1
+		for first < len(send) && done[first] {
+			first++
+		}
+		if n := len(send) - left; r.opt.Progress != nil && n%2000 == 0 {
+			r.opt.Progress(n, len(send))
 		}
 	}
 	if r.opt.Progress != nil {
 		r.opt.Progress(len(send), len(send))
-	}
-	if r.dead != "" {
-		return
 	}
 	for {
 		l, err := r.p.Next()
 		switch {
 		case errors.Is(err, live.ErrHung):
 			r.p.Kill()
-			r.res.Trouble = append(r.res.Trouble, "the implementation did not exit at the end of its input; killed")
+			r.trouble("the implementation did not exit at the end of its input; killed")
 			return
 		case errors.Is(err, live.ErrLineTooLong):
 			r.ck.Stray("after the last answer: a line longer than " + strconv.Itoa(live.MaxLineBytes) + " bytes")
 			continue
 		case err != nil:
 			if st := r.p.Wait(); st != "exit status 0" {
-				r.res.Trouble = append(r.res.Trouble, "the implementation ended with "+st+"; stderr: "+r.p.Stderr(5))
+				r.trouble("the implementation ended with " + st + "; stderr: " + r.p.Stderr(5))
 			}
 			return
 		}
@@ -155,43 +180,41 @@ func (r *runner) collect(send []*corpus.Case) {
 	}
 }
 
-// lost records case c (the i-th of n sent) as unanswered: the process hung
-// on it or had exited.
-func (r *runner) lost(c *corpus.Case, i, n int, err error) {
-	if errors.Is(err, live.ErrHung) {
-		r.p.Kill()
-		r.res.Trouble = append(r.res.Trouble, fmt.Sprintf("hung on case %s (no answer within %v); killed", c.ID, r.p.Timeout))
-		r.ck.Record(CaseResult{ID: c.ID, Op: c.Op, Family: c.Family, Status: Fail,
-			Note: fmt.Sprintf("no answer within %v: the implementation hung on this request", r.p.Timeout)})
-		r.dead = "not answered: the implementation hung on case " + c.ID
-		return
-	}
-	status := r.p.Wait()
-	if !errors.Is(err, io.EOF) {
-		status = err.Error() + "; " + status
-	}
-	r.res.Trouble = append(r.res.Trouble, fmt.Sprintf("the implementation stopped answering after %d of %d cases (%s); stderr: %s", i, n, status, r.p.Stderr(5)))
-	r.dead = "not answered: the implementation exited (" + status + ") before this case"
-	r.ck.Record(CaseResult{ID: c.ID, Op: c.Op, Family: c.Family, Status: Missing, Note: r.dead})
+// trouble records what went wrong with the process, in the result and the
+// report.
+func (r *runner) trouble(msg string) {
+	r.res.Trouble = append(r.res.Trouble, msg)
+	r.ck.Trouble(msg)
 }
 
-// check checks the answer line l to case c (tooLong set when the line was
-// cut off).
-func (r *runner) check(c *corpus.Case, l []byte, tooLong error) {
-	if tooLong != nil {
-		r.res.Trouble = append(r.res.Trouble, fmt.Sprintf("case %s: %v", c.ID, tooLong))
-		r.ck.Record(CaseResult{ID: c.ID, Op: c.Op, Family: c.Family, Status: Fail, Note: tooLong.Error()})
-		return
+// lost records the cases not answered when the process hung (the first of
+// them, send[first], is the one it hung on) or stopped answering.
+func (r *runner) lost(send []*corpus.Case, done []bool, first int, err error) {
+	answered := 0
+	for _, d := range done {
+		if d {
+			answered++
+		}
 	}
-	id, isObj := corpus.AnswerID(l)
-	switch {
-	case !isObj:
-		r.res.Trouble = append(r.res.Trouble, fmt.Sprintf("garbage on stdout where case %s's answer was due: %s", c.ID, spec.Excerpt(l, 80)))
-		r.ck.Record(CaseResult{ID: c.ID, Op: c.Op, Family: c.Family, Status: Fail, Note: "garbage on stdout instead of an answer: " + spec.Excerpt(l, 80)})
-	case id != c.ID:
-		r.res.Trouble = append(r.res.Trouble, fmt.Sprintf("answer out of order: got id %q where %q was due", id, c.ID))
-		r.ck.Record(CaseResult{ID: c.ID, Op: c.Op, Family: c.Family, Status: Fail, Note: fmt.Sprintf("answer out of order or missing: the answer due here has id %q", id)})
-	default:
-		r.ck.Check(c, l)
+	if errors.Is(err, live.ErrHung) {
+		r.p.Kill()
+		c := send[first]
+		r.trouble(fmt.Sprintf("hung on case %s (no answer within %v); killed", c.ID, r.p.Timeout))
+		r.ck.Record(CaseResult{ID: c.ID, Op: c.Op, Family: c.Family, Status: Fail,
+			Note: fmt.Sprintf("no answer within %v: the implementation hung on this request", r.p.Timeout)})
+		done[first] = true
+		r.dead = "not answered: the implementation hung on case " + c.ID
+	} else {
+		status := r.p.Wait()
+		if !errors.Is(err, io.EOF) {
+			status = err.Error() + "; " + status
+		}
+		r.trouble(fmt.Sprintf("the implementation stopped answering after %d of %d cases (%s); stderr: %s", answered, len(send), status, r.p.Stderr(5)))
+		r.dead = "not answered: the implementation exited (" + status + ") before this case"
+	}
+	for i, c := range send {
+		if !done[i] {
+			r.ck.Record(CaseResult{ID: c.ID, Op: c.Op, Family: c.Family, Status: Missing, Note: r.dead})
+		}
 	}
 }

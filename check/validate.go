@@ -1,7 +1,6 @@
 package check
 
 import (
-	"bufio"
 	"bytes"
 	"encoding/json"
 	"fmt"
@@ -24,61 +23,72 @@ type BadLine struct {
 // ValidateCorpus checks every line of a corpus: the case schema, the
 // request's op and id agreeing with the case's, unique ids, and the
 // expectation and margins being what the reference answers now (strict).
-// It returns the problems found and the number of cases read.
+// It returns the problems found and the number of cases read; an empty
+// corpus is a problem (it proves nothing), and a line longer than
+// corpus.MaxLineBytes is one too, and validation goes on after it.
 func ValidateCorpus(r io.Reader) (problems []BadLine, n int, err error) {
-	sc := bufio.NewScanner(r)
-	sc.Buffer(make([]byte, 64<<10), corpus.MaxLineBytes)
 	seen := map[string]int{}
 	strict := Profiles["strict"]
-	for line := 1; sc.Scan(); line++ {
-		b := bytes.TrimSpace(sc.Bytes())
-		if len(b) == 0 {
-			continue
-		}
+	err = corpus.EachLine(r, func(line int, b []byte, tooLong bool) error {
 		n++
-		if err := corpus.ValidateLine("case", b); err != nil {
-			problems = append(problems, BadLine{Line: line, Msg: "schema: " + err.Error()})
-			continue
+		if tooLong {
+			problems = append(problems, BadLine{Line: line, Msg: fmt.Sprintf("longer than %d bytes", corpus.MaxLineBytes)})
+			return nil
 		}
-		var c corpus.Case
-		if err := jsonv2.Unmarshal(b, &c, jsonOpts); err != nil {
-			problems = append(problems, BadLine{Line: line, Msg: "case: " + err.Error()})
-			continue
+		if p := validateLine(line, b, seen, &strict); p != nil {
+			problems = append(problems, p...)
 		}
-		// The request is read as eval reads it (keys matched exactly), so
-		// that validate refuses what eval refuses.
-		var req wire.Request
-		if err := wire.DecodeRequest(c.Request, &req); err != nil {
-			_, msg := wire.DecodeError(err)
-			problems = append(problems, BadLine{Line: line, ID: c.ID, Msg: "request: " + msg})
-			continue
-		}
-		if req.Op != c.Op {
-			problems = append(problems, BadLine{Line: line, ID: c.ID, Msg: fmt.Sprintf("request.op %q is not the case's op %q", req.Op, c.Op)})
-		}
-		if id, _ := corpus.AnswerID(c.Request); id != c.ID {
-			problems = append(problems, BadLine{Line: line, ID: c.ID, Msg: fmt.Sprintf("request.id %q is not the case's id", id)})
-		}
-		if j, dup := seen[c.ID]; dup {
-			problems = append(problems, BadLine{Line: line, ID: c.ID, Msg: fmt.Sprintf("id repeats line %d", j)})
-		}
-		seen[c.ID] = line
-		fresh, err := corpus.NewCase(c.ID, c.Family, &req)
-		if err != nil {
-			problems = append(problems, BadLine{Line: line, ID: c.ID, Msg: "the reference cannot answer it: " + err.Error()})
-			continue
-		}
-		if st, diffs := Compare(&c, fresh.Expect, &strict); st != Pass {
-			problems = append(problems, BadLine{Line: line, ID: c.ID, Msg: "expect is not what the reference answers now: " + describeDiffs(diffs)})
-		}
-		if !jsonEqual(c.Margins, fresh.Margins) {
-			problems = append(problems, BadLine{Line: line, ID: c.ID, Msg: "margins are not the reference's"})
-		}
+		return nil
+	})
+	if err == nil && n == 0 {
+		problems = append(problems, BadLine{Msg: "no cases: the corpus is empty"})
 	}
-	if err := sc.Err(); err != nil {
-		return problems, n, err
+	return problems, n, err
+}
+
+// validateLine checks one corpus line (see ValidateCorpus); seen holds the
+// ids met so far and their lines.
+func validateLine(line int, b []byte, seen map[string]int, strict *Profile) []BadLine {
+	if err := corpus.ValidateLine("case", b); err != nil {
+		return []BadLine{{Line: line, Msg: "schema: " + err.Error()}}
 	}
-	return problems, n, nil
+	var c corpus.Case
+	if err := jsonv2.Unmarshal(b, &c, jsonOpts); err != nil {
+		return []BadLine{{Line: line, Msg: "case: " + err.Error()}}
+	}
+	// The request is read as eval reads it (keys matched exactly), so that
+	// validate refuses what eval refuses.
+	var req wire.Request
+	if err := wire.DecodeRequest(c.Request, &req); err != nil {
+		_, msg := wire.DecodeError(err)
+		return []BadLine{{Line: line, ID: c.ID, Msg: "request: " + msg}}
+	}
+	var problems []BadLine
+	bad := func(format string, args ...any) {
+		problems = append(problems, BadLine{Line: line, ID: c.ID, Msg: fmt.Sprintf(format, args...)})
+	}
+	if req.Op != c.Op {
+		bad("request.op %q is not the case's op %q", req.Op, c.Op)
+	}
+	if id, _ := corpus.AnswerID(c.Request); id != c.ID {
+		bad("request.id %q is not the case's id", id)
+	}
+	if j, dup := seen[c.ID]; dup {
+		bad("id repeats line %d", j)
+	}
+	seen[c.ID] = line
+	fresh, err := corpus.NewCase(c.ID, c.Family, &req)
+	if err != nil {
+		bad("the reference cannot answer it: %v", err)
+		return problems
+	}
+	if st, diffs := Compare(&c, fresh.Expect, strict); st != Pass {
+		bad("expect is not what the reference answers now: %s", describeDiffs(diffs))
+	}
+	if !jsonEqual(c.Margins, fresh.Margins) {
+		bad("margins are not the reference's")
+	}
+	return problems
 }
 
 func describeDiffs(ds []Diff) string {

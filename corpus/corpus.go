@@ -1,7 +1,6 @@
 package corpus
 
 import (
-	"bufio"
 	"bytes"
 	"encoding/json"
 	"errors"
@@ -53,40 +52,50 @@ const MaxLineBytes = wire.MaxLineBytes
 // has an id, an op and a request whose id is the case's, and that ids are
 // unique. Blank lines are skipped.
 func ReadCorpus(name string, r io.Reader) ([]Case, error) {
-	sc := bufio.NewScanner(r)
-	sc.Buffer(make([]byte, 64<<10), MaxLineBytes)
 	var cases []Case
 	seen := map[string]int{}
-	for line := 1; sc.Scan(); line++ {
-		b := bytes.TrimSpace(sc.Bytes())
-		if len(b) == 0 {
-			continue
+	err := EachLine(r, func(line int, b []byte, tooLong bool) error {
+		if tooLong {
+			return &ReadError{name, line, fmt.Sprintf("longer than %d bytes", MaxLineBytes)}
 		}
-		var c Case
-		if err := json.Unmarshal(b, &c); err != nil {
-			_, msg := wire.DecodeError(err)
-			return nil, &ReadError{name, line, "not a corpus line: " + msg}
-		}
-		switch {
-		case c.ID == "":
-			return nil, &ReadError{name, line, "id: missing"}
-		case c.Op == "":
-			return nil, &ReadError{name, line, "op: missing"}
-		case len(c.Request) == 0 || c.Request[0] != '{':
-			return nil, &ReadError{name, line, "request: missing or not an object"}
-		case len(c.Expect) == 0 || c.Expect[0] != '{':
-			return nil, &ReadError{name, line, "expect: missing or not an object"}
+		c, err := ParseCase(b)
+		if err != nil {
+			return &ReadError{name, line, err.Error()}
 		}
 		if j, dup := seen[c.ID]; dup {
-			return nil, &ReadError{name, line, fmt.Sprintf("id %q repeats line %d", c.ID, j)}
+			return &ReadError{name, line, fmt.Sprintf("id %q repeats line %d", c.ID, j)}
 		}
 		seen[c.ID] = line
 		cases = append(cases, c)
+		return nil
+	})
+	var re *ReadError
+	if err != nil && !errors.As(err, &re) {
+		err = &ReadError{name, 0, err.Error()}
 	}
-	if err := sc.Err(); err != nil {
-		return nil, &ReadError{name, 0, err.Error()}
+	return cases, err
+}
+
+// ParseCase reads one corpus line: it must have an id, an op, and a request
+// and an expectation that are objects. The case keeps copies of its raw
+// parts.
+func ParseCase(b []byte) (Case, error) {
+	var c Case
+	if err := json.Unmarshal(b, &c); err != nil {
+		_, msg := wire.DecodeError(err)
+		return c, errors.New("not a corpus line: " + msg)
 	}
-	return cases, nil
+	switch {
+	case c.ID == "":
+		return c, errors.New("id: missing")
+	case c.Op == "":
+		return c, errors.New("op: missing")
+	case len(c.Request) == 0 || c.Request[0] != '{':
+		return c, errors.New("request: missing or not an object")
+	case len(c.Expect) == 0 || c.Expect[0] != '{':
+		return c, errors.New("expect: missing or not an object")
+	}
+	return c, nil
 }
 
 // Answer is one answer line as read from an implementation: its id and the
@@ -98,24 +107,24 @@ type Answer struct {
 }
 
 // ReadAnswers reads answer lines (JSON objects with a string id) from r.
-// Lines that are not JSON objects, or lack a string id, are returned in bad
-// with their line numbers, for the checker to report against no case.
+// Lines that are not JSON objects, lack a string id or are longer than
+// MaxLineBytes are returned in bad with their line numbers, for the
+// checker to report against no case; reading goes on past them.
 func ReadAnswers(name string, r io.Reader) (answers []Answer, bad []string, err error) {
-	sc := bufio.NewScanner(r)
-	sc.Buffer(make([]byte, 64<<10), MaxLineBytes)
-	for line := 1; sc.Scan(); line++ {
-		b := bytes.TrimSpace(sc.Bytes())
-		if len(b) == 0 {
-			continue
+	err = EachLine(r, func(line int, b []byte, tooLong bool) error {
+		if tooLong {
+			bad = append(bad, fmt.Sprintf("%s:%d: longer than %d bytes, not read", name, line, MaxLineBytes))
+			return nil
 		}
 		id, ok := AnswerID(b)
 		if !ok {
 			bad = append(bad, fmt.Sprintf("%s:%d: not a JSON object with a string id: %s", name, line, spec.Excerpt(b, 80)))
-			continue
+			return nil
 		}
 		answers = append(answers, Answer{ID: id, Raw: append(json.RawMessage(nil), b...), Line: line})
-	}
-	if err := sc.Err(); err != nil {
+		return nil
+	})
+	if err != nil {
 		return nil, nil, &ReadError{name, 0, err.Error()}
 	}
 	return answers, bad, nil

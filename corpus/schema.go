@@ -7,6 +7,8 @@ import (
 	"sync"
 
 	"github.com/santhosh-tekuri/jsonschema/v6"
+	"golang.org/x/text/language"
+	"golang.org/x/text/message"
 
 	"github.com/viewspec/viewspec/fixtures"
 )
@@ -72,11 +74,15 @@ func ValidateLine(schema string, line []byte) error {
 }
 
 // firstCause returns the deepest first cause of a validation error, where
-// the message names the field.
+// the message names the field, in words ("at /expect: missing property
+// 'error'"), never a Go value.
 func firstCause(ve *jsonschema.ValidationError) string {
 	for len(ve.Causes) > 0 {
 		ve = ve.Causes[0]
 	}
 	loc := "/" + strings.Join(ve.InstanceLocation, "/")
-	return fmt.Sprintf("at %s: %v", loc, ve.ErrorKind)
+	return fmt.Sprintf("at %s: %s", loc, ve.ErrorKind.LocalizedString(english))
 }
+
+// english prints the schema library's messages.
+var english = message.NewPrinter(language.English)

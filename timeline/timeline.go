@@ -160,10 +160,21 @@ func Compute(d *Drive, ms []Marker) ([]Result, error) {
 	return r.run()
 }
 
+// MaxMarkerTicks is the most markers × ticks one timeline computes: about
+// 10 s of work on one core when every marker must be tested at every tick
+// (a drive that turns all the time), and well under that on a real drive.
+// SPEC §5 states it, so that a server refusing larger requests agrees with
+// the reference.
+const MaxMarkerTicks = 1e8
+
 // newRun validates d and ms and returns the run of the drive.
 func newRun(d *Drive, ms []Marker) (*driveRun, error) {
 	if err := d.Validate(); err != nil {
 		return nil, err
+	}
+	if work := float64(d.Ticks()+1) * float64(len(ms)); work > MaxMarkerTicks {
+		return nil, &spec.FieldError{Field: "markers", Value: strconv.Itoa(len(ms)) + " markers × " + strconv.Itoa(d.Ticks()+1) + " ticks",
+			Reason: "more than " + spec.FormatNumber(MaxMarkerTicks) + " marker-ticks, the most one timeline computes (SPEC §5)"}
 	}
 	merc, err := markerPoints(ms)
 	if err != nil {

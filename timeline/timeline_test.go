@@ -1,16 +1,20 @@
 package timeline_test
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 	"testing"
+	"time"
 
 	"github.com/paulmach/orb"
 	"pgregory.net/rapid"
 
 	"github.com/viewspec/viewspec/routes"
 	"github.com/viewspec/viewspec/rules"
+	"github.com/viewspec/viewspec/spec"
 	"github.com/viewspec/viewspec/timeline"
 	"github.com/viewspec/viewspec/viewport"
 )
@@ -490,5 +494,39 @@ func TestBucketNames(t *testing.T) {
 	}
 	if !slices.Equal(names, []string{"never", "early", "mid", "late"}) {
 		t.Fatal(names)
+	}
+}
+
+// One request must not run for minutes (1e7 ticks × 20,000 markers took
+// 119 s): beyond MaxMarkerTicks marker-ticks the timeline is refused, at
+// once, naming the markers and the ticks.
+func TestTimelineWorkLimit(t *testing.T) {
+	r, err := routes.New([]orb.Point{{0, 0}, {0, 1}}, []float64{10})
+	if err != nil {
+		t.Fatal(err)
+	}
+	d := timeline.NewDrive(r, 0, viewport.NewDevice(390, 844, 45), oneBand(16, 45))
+	d.HorizonS, d.TickS = 1e6, 0.1 // 1e7 ticks
+	ms := make([]timeline.Marker, 20000)
+	for i := range ms {
+		ms[i] = timeline.Marker{ID: fmt.Sprint(i), Point: orb.Point{0, float64(i) * 1e-5}}
+	}
+	start := time.Now()
+	_, err = timeline.Compute(&d, ms)
+	var fe *spec.FieldError
+	if !errors.As(err, &fe) || fe.Field != "markers" || !strings.Contains(fe.Error(), "20000 markers × 10000001 ticks") {
+		t.Fatalf("Compute(20,000 markers, 1e7 ticks) error = %v, want the work limit on markers", err)
+	}
+	if el := time.Since(start); el > time.Second {
+		t.Errorf("refused after %v, want at once", el)
+	}
+	// At the boundary: 400,001 ticks × 250 markers is over 1e8 and refused;
+	// × 249 is within it and computed (a straight drive, quickly).
+	d.HorizonS, d.TickS = 1e5, 0.25
+	if _, err := timeline.Compute(&d, ms[:250]); !errors.As(err, &fe) || fe.Field != "markers" {
+		t.Fatalf("250 markers × 400,001 ticks: error %v, want the work limit", err)
+	}
+	if _, err := timeline.Compute(&d, ms[:249]); err != nil {
+		t.Fatalf("249 markers × 400,001 ticks: %v, want it computed", err)
 	}
 }

@@ -1,9 +1,11 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"os"
+	"strconv"
 	"strings"
 	"text/tabwriter"
 	"time"
@@ -89,11 +91,14 @@ func newValidateCmd() *cobra.Command {
 			}
 			out := cmd.OutOrStdout()
 			for _, p := range problems {
-				id := ""
-				if p.ID != "" {
-					id = " " + p.ID + ":"
+				where := args[0]
+				if p.Line > 0 {
+					where += ":" + strconv.Itoa(p.Line)
 				}
-				fmt.Fprintf(out, "%s:%d:%s %s\n", args[0], p.Line, id, p.Msg)
+				if p.ID != "" {
+					where += ": " + p.ID
+				}
+				fmt.Fprintf(out, "%s: %s\n", where, p.Msg)
 			}
 			if len(problems) > 0 {
 				return &exitError{1, fmt.Errorf("%d problem(s) in %d cases", len(problems), n)}
@@ -202,7 +207,7 @@ func (rf *reportFlags) emit(cmd *cobra.Command, r *check.Report) error {
 		return err
 	}
 	if r.Failed() {
-		return &exitError{1, fmt.Errorf("%d failed, %d missing", r.Counts.Fail, r.Counts.Missing)}
+		return &exitError{1, errors.New(r.Verdict())}
 	}
 	return nil
 }
