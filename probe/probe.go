@@ -134,6 +134,10 @@ type Disagreement struct {
 	Err    string          // why it failed to answer
 	Diffs  []check.Diff    // what differs
 	Checks int             // cases drawn before the first failure
+	// Shrunk says whether the case was shrunk; it is not when rapid's own
+	// draws did not meet the failure again, and the scan's case is
+	// reported as found.
+	Shrunk bool
 }
 
 // probeTB is a rapid.TB that collects instead of failing a test.
@@ -266,9 +270,17 @@ func probeOp(impl Impl, op string, opt *Options) *Disagreement {
 	var last *Disagreement
 	drawn := 0
 	firstFail := 0
+	var deadline time.Time // set at the first failure: shrinking ends then
 	gen := props.ProbeRequest(op)
 	tb := &probeTB{name: "probe/" + op}
 	rapid.Check(tb, func(t *rapid.T) {
+		if firstFail != 0 && time.Now().After(deadline) {
+			// Shrink time is over: every further attempt passes, so rapid
+			// keeps the smallest case found and stops at once, whatever
+			// each attempt would cost (an implementation that hangs costs
+			// a whole timeout an attempt).
+			return
+		}
 		lr := gen.Draw(t, "request")
 		drawn++
 		c, err := corpus.NewCase("probe/"+op+"/"+lr.Family, lr.Family, lr.Request)
@@ -279,6 +291,7 @@ func probeOp(impl Impl, op string, opt *Options) *Disagreement {
 		fail := func(f *Disagreement, format string, args ...any) {
 			if firstFail == 0 {
 				firstFail = drawn
+				deadline = time.Now().Add(opt.ShrinkTime)
 			}
 			last = f
 			t.Fatalf(format, args...)
@@ -295,8 +308,8 @@ func probeOp(impl Impl, op string, opt *Options) *Disagreement {
 	if !tb.failed || last == nil {
 		return nil
 	}
-	last.Checks = firstFail
-	return last
+	last.Checks, last.Shrunk = firstFail, true
+	return reduce(impl, last, opt, deadline.Add(opt.ShrinkTime/4))
 }
 
 // scanOp streams opt.Checks cases of op to the implementation, drawn from
@@ -352,11 +365,22 @@ func scanOp(impl Impl, op string, opt *Options) (*Disagreement, error) {
 				ck.Check(&cases[i], got)
 			}
 		}
-		for i, res := range ck.Report().Cases {
-			if res.Status == check.Fail || res.Status == check.Missing {
-				c := cases[i]
-				return &Disagreement{Op: op, Family: c.Family, Case: c, Err: res.Note, Diffs: res.Diffs, Checks: start + i + 1}, nil
+		at := make(map[string]int, len(cases))
+		for i := range cases {
+			at[cases[i].ID] = i
+		}
+		// The first case in draw order that failed (results are recorded
+		// in the order they were decided).
+		first := -1
+		var firstRes check.CaseResult
+		for _, res := range ck.Report().Cases {
+			if i, ok := at[res.ID]; ok && (res.Status == check.Fail || res.Status == check.Missing) && (first < 0 || i < first) {
+				first, firstRes = i, res
 			}
+		}
+		if first >= 0 {
+			c := cases[first]
+			return &Disagreement{Op: op, Family: c.Family, Case: c, Err: firstRes.Note, Diffs: firstRes.Diffs, Checks: start + first + 1}, nil
 		}
 	}
 	return nil, nil

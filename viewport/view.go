@@ -2,6 +2,7 @@ package viewport
 
 import (
 	"math"
+	"strconv"
 
 	"github.com/paulmach/orb"
 )
@@ -282,3 +283,40 @@ func (v *View) HorizonRowPx() (float64, bool) {
 	}
 	return row, true
 }
+
+// BindingEdge names the edge of the in-view region that decides whether
+// the screen point s is in view, the one its MarginPx measures to, with the
+// numbers on each side: "left edge: x 12.3 px, clear area from 60 px",
+// "far limit: depth 1450.9 px > k·f 1074.8 px", "behind the camera: depth
+// −3 px". A report uses it to say why an in-view answer came out as it did.
+func (v *View) BindingEdge(s ScreenPoint) string {
+	if !s.HasPixel() {
+		return "behind the camera: depth " + fmtPx(s.DepthPx) + " px ≤ 0"
+	}
+	cmp := func(in bool, a, b string) string {
+		if in {
+			return a
+		}
+		return b
+	}
+	edges := [...]struct {
+		margin float64
+		text   string
+	}{
+		{s.X - v.left, "left edge: x " + fmtPx(s.X) + " px " + cmp(s.X >= v.left, "≥", "<") + " " + fmtPx(v.left) + " px"},
+		{v.right - s.X, "right edge: x " + fmtPx(s.X) + " px " + cmp(s.X <= v.right, "≤", ">") + " " + fmtPx(v.right) + " px"},
+		{s.Y - v.top, "top edge: y " + fmtPx(s.Y) + " px " + cmp(s.Y >= v.top, "≥", "<") + " " + fmtPx(v.top) + " px"},
+		{v.bottom - s.Y, "bottom edge: y " + fmtPx(s.Y) + " px " + cmp(s.Y <= v.bottom, "≤", ">") + " " + fmtPx(v.bottom) + " px"},
+		{s.Y - v.farRow, "far limit: depth " + fmtPx(s.DepthPx) + " px " + cmp(s.DepthPx <= v.maxDepth, "≤", ">") + " k·f " + fmtPx(v.maxDepth) + " px"},
+	}
+	best := 0
+	for i, e := range edges {
+		if e.margin < edges[best].margin {
+			best = i
+		}
+	}
+	return edges[best].text
+}
+
+// fmtPx writes a pixel quantity to a tenth of a pixel for people.
+func fmtPx(v float64) string { return strconv.FormatFloat(v, 'f', 1, 64) }

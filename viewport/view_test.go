@@ -2,6 +2,7 @@ package viewport_test
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/paulmach/orb"
@@ -518,4 +519,46 @@ func boundaryDistM(vs [4]viewport.Mercator, m viewport.Mercator) float64 {
 		best = min(best, math.Hypot(m.X-a.X-s*ex, m.Y-a.Y-s*ey))
 	}
 	return best
+}
+
+// BindingEdge names the edge MarginPx measures to. Hand-computed on a
+// 400 × 800 px, 60° screen at pitch 60° (horizon row 0, far row 40, see
+// horizon_test.go) with a 60 px left inset: the pixel (30, 500) is left of
+// the clear area, (200, 20) beyond the far limit.
+func TestBindingEdge(t *testing.T) {
+	d := viewport.NewDevice(400, 800, 60)
+	d.InsetLeftPx = 60
+	v, err := viewport.Prepare(viewport.Camera{LatDeg: 10, LonDeg: 20, PitchDeg: 60, Zoom: 15, Device: d})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		x, y float64
+		want string
+	}{
+		{30, 500, "left edge: x 30.0 px < 60.0 px"},
+		{200, 20, "far limit: depth "},
+		{200, 795, "bottom edge: y 795.0 px ≤ 800.0 px"},
+	} {
+		m, ok := v.UnprojectMercator(viewport.Pixel{X: c.x, Y: c.y})
+		if !ok {
+			t.Fatalf("(%v, %v) sees no ground", c.x, c.y)
+		}
+		if got := v.BindingEdge(v.ProjectMercator(m)); !strings.HasPrefix(got, c.want) {
+			t.Errorf("BindingEdge at (%v, %v) = %q, want it to start %q", c.x, c.y, got, c.want)
+		}
+	}
+	far := v.BindingEdge(v.ProjectMercator(mustUnproject(t, &v, 200, 20)))
+	if !strings.Contains(far, "> k·f") {
+		t.Errorf("beyond the far limit: %q, want depth > k·f", far)
+	}
+}
+
+func mustUnproject(t *testing.T, v *viewport.View, x, y float64) viewport.Mercator {
+	t.Helper()
+	m, ok := v.UnprojectMercator(viewport.Pixel{X: x, Y: y})
+	if !ok {
+		t.Fatalf("(%v, %v) sees no ground", x, y)
+	}
+	return m
 }

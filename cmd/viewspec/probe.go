@@ -3,6 +3,8 @@ package main
 import (
 	"fmt"
 	"io"
+	"os"
+	"path/filepath"
 	"strings"
 	"time"
 
@@ -13,10 +15,11 @@ import (
 	"github.com/viewspec/viewspec/probe"
 	"github.com/viewspec/viewspec/reference"
 	"github.com/viewspec/viewspec/spec"
+	"github.com/viewspec/viewspec/wire"
 )
 
 func newProbeCmd() *cobra.Command {
-	var impl, opsList, profile, out string
+	var impl, opsList, profile, outDir string
 	var checks int
 	var seed uint64
 	var timeout, shrink time.Duration
@@ -38,6 +41,15 @@ same seed draws the same cases.`,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			if impl == "" {
 				return &exitError{2, fmt.Errorf("--impl 'CMD' is required")}
+			}
+			if checks < 1 {
+				return &exitError{2, fmt.Errorf("--checks = %d: at least 1 case per op", checks)}
+			}
+			if timeout <= 0 {
+				return &exitError{2, fmt.Errorf("--timeout = %v: must be positive", timeout)}
+			}
+			if shrink <= 0 {
+				return &exitError{2, fmt.Errorf("--shrink-time = %v: must be positive", shrink)}
 			}
 			p, err := check.LoadProfile(profile, "")
 			if err != nil {
@@ -69,6 +81,10 @@ same seed draws the same cases.`,
 				return nil
 			}
 			printFinding(w, f)
+			if err := os.MkdirAll(outDir, 0o755); err != nil {
+				return &exitError{2, err}
+			}
+			out := filepath.Join(outDir, "probe-finding.jsonl")
 			if err := corpus.WriteFileAtomic(out, func(w io.Writer) error {
 				b, err := corpus.CaseLine(f.Case)
 				if err != nil {
@@ -88,22 +104,32 @@ same seed draws the same cases.`,
 	cmd.Flags().IntVar(&checks, "checks", 1000, "cases to draw per op")
 	cmd.Flags().Uint64Var(&seed, "seed", 1, "random seed (the same seed draws the same cases)")
 	cmd.Flags().StringVar(&profile, "profile", "strict", "tolerance profile: strict or field")
-	cmd.Flags().StringVarP(&out, "output", "o", "probe-finding.jsonl", "where to write the minimal case (one-line corpus)")
+	cmd.Flags().StringVarP(&outDir, "out", "o", "viewspec-probe", "`DIR` to write the minimal case to, as probe-finding.jsonl (a one-line corpus)")
 	cmd.Flags().DurationVar(&timeout, "timeout", 5*time.Second, "how long to wait for each answer")
 	cmd.Flags().DurationVar(&shrink, "shrink-time", 30*time.Second, "how long to spend shrinking at most")
 	return cmd
 }
 
+// maxQuote is the most of a request or an answer a finding quotes.
+const maxQuote = 4000
+
 // printFinding shows a minimal case, both answers and what differs.
 func printFinding(w io.Writer, f *probe.Disagreement) {
-	fmt.Fprintf(w, "DISAGREEMENT in op %s (family %s), found after %d case(s) and shrunk:\n\n", f.Op, f.Family, f.Checks)
-	fmt.Fprintf(w, "request:\n  %s\n", f.Case.Request)
-	fmt.Fprintf(w, "reference answers:\n  %s\n", f.Case.Expect)
+	how := "shrunk"
+	if !f.Shrunk {
+		how = "not shrunk (the shrinker did not meet it again)"
+	}
+	fmt.Fprintf(w, "DISAGREEMENT in op %s (family %s), found after %d case(s), %s:\n\n", f.Op, f.Family, f.Checks, how)
+	fmt.Fprintf(w, "request:\n  %s\n", spec.Excerpt(f.Case.Request, maxQuote))
+	if pts := latLons(f.Case.Request); pts != "" {
+		fmt.Fprintf(w, "points (lat, lon):\n%s", pts)
+	}
+	fmt.Fprintf(w, "reference answers:\n  %s\n", spec.Excerpt(f.Case.Expect, maxQuote))
 	if f.Err != "" {
-		fmt.Fprintf(w, "implementation: %s\n", f.Err)
+		fmt.Fprintf(w, "implementation: %s\n", spec.Excerpt([]byte(f.Err), maxQuote))
 		return
 	}
-	fmt.Fprintf(w, "implementation answers:\n  %s\n", f.Got)
+	fmt.Fprintf(w, "implementation answers:\n  %s\n", spec.Excerpt(f.Got, maxQuote))
 	fmt.Fprintln(w, "differences:")
 	for _, d := range f.Diffs {
 		line := fmt.Sprintf("  %s: got %s, want %s", d.Path, d.Got, d.Want)
@@ -117,4 +143,43 @@ func printFinding(w io.Writer, f *probe.Disagreement) {
 		}
 		fmt.Fprintln(w, strings.TrimRight(line, " "))
 	}
+	for _, e := range probe.Explain(f) {
+		fmt.Fprintf(w, "  why the reference decides so: %s\n", e)
+	}
+}
+
+// latLons lists the request's points and user as labelled (lat, lon)
+// pairs, one a line, or "" when it has none.
+func latLons(request []byte) string {
+	var req wire.Request
+	if wire.DecodeRequest(request, &req) != nil {
+		return ""
+	}
+	var b strings.Builder
+	add := func(label string, p *wire.Point) {
+		if p != nil && p.Lat != nil && p.Lon != nil {
+			fmt.Fprintf(&b, "  %s: lat %s, lon %s\n", label, spec.FormatNumber(*p.Lat), spec.FormatNumber(*p.Lon))
+		}
+	}
+	if c := req.Camera; c != nil && c.Lat != nil && c.Lon != nil {
+		add("camera", &wire.Point{Lat: c.Lat, Lon: c.Lon})
+	}
+	add("user", req.User)
+	for i, p := range req.Points {
+		if i == 20 {
+			fmt.Fprintf(&b, "  … and %d more\n", len(req.Points)-20)
+			break
+		}
+		add(fmt.Sprintf("points[%d]", i), p)
+	}
+	for i, m := range req.Markers {
+		if i == 20 {
+			fmt.Fprintf(&b, "  … and %d more\n", len(req.Markers)-20)
+			break
+		}
+		if m != nil && m.ID != nil {
+			add(fmt.Sprintf("markers[%d] %q", i, *m.ID), &wire.Point{Lat: m.Lat, Lon: m.Lon})
+		}
+	}
+	return b.String()
 }
