@@ -460,8 +460,8 @@ func timelineFamilies() []Family {
 			}
 		}),
 		mk("bucket_edges", "straight", func(rng Source, req *wire.Request, r *routes.Route) {
-			e := []float64{2, 10}
-			req.BucketEdgesS = e
+			e1, e2 := 2.0, 10.0
+			req.BucketEdgesS = []*float64{&e1, &e2}
 		}),
 		mk("start_mid_route", "u_turn", func(rng Source, req *wire.Request, r *routes.Route) {
 			s := uniform(rng, 0, r.LengthM())

@@ -5,6 +5,7 @@ import (
 	"strconv"
 
 	jsonv2 "github.com/go-json-experiment/json"
+	"github.com/go-json-experiment/json/jsontext"
 
 	"github.com/paulmach/orb"
 
@@ -263,20 +264,51 @@ func under(prefix string, err error) error {
 	return &spec.FieldError{Field: field, Reason: err.Error()}
 }
 
-// speeds reads speed_mps: one number, or an array of numbers.
+// speeds reads speed_mps: one number, or an array of numbers. A number
+// beyond the double range is invalid_value, as everywhere on the wire; a
+// null entry is missing; anything else is bad_type.
 func (w *Route) speeds(path string) ([]float64, error) {
-	if len(w.SpeedMps) == 0 || string(w.SpeedMps) == "null" {
+	raw := jsontext.Value(w.SpeedMps)
+	switch raw.Kind() {
+	case 0, 'n':
 		return nil, spec.Absent(path)
+	case '0':
+		v, err := number(raw, path)
+		return []float64{v}, err
+	case '[':
+		var items []jsontext.Value
+		if err := jsonv2.Unmarshal(raw, &items); err != nil {
+			return nil, &spec.FieldError{Kind: spec.BadType, Field: path, Reason: "expected a number or an array of numbers"}
+		}
+		out := make([]float64, len(items))
+		for i, it := range items {
+			at := spec.Index(path, i)
+			switch it.Kind() {
+			case 'n':
+				return nil, spec.Absent(at)
+			case '0':
+				v, err := number(it, at)
+				if err != nil {
+					return nil, err
+				}
+				out[i] = v
+			default:
+				return nil, &spec.FieldError{Kind: spec.BadType, Field: at, Reason: "expected a number"}
+			}
+		}
+		return out, nil
 	}
-	var one float64
-	if err := jsonv2.Unmarshal(w.SpeedMps, &one, requestOpts); err == nil {
-		return []float64{one}, nil
+	return nil, &spec.FieldError{Kind: spec.BadType, Field: path, Reason: "expected a number or an array of numbers"}
+}
+
+// number reads a JSON number; one beyond the double range is an invalid
+// value, not a wrong type.
+func number(raw jsontext.Value, path string) (float64, error) {
+	v, err := strconv.ParseFloat(string(raw), 64)
+	if err != nil {
+		return 0, &spec.FieldError{Field: path, Value: string(raw), Reason: "not a finite number"}
 	}
-	var many []float64
-	if err := jsonv2.Unmarshal(w.SpeedMps, &many, requestOpts); err != nil {
-		return nil, &spec.FieldError{Kind: spec.BadType, Field: path, Reason: "expected a number or an array of numbers"}
-	}
-	return many, nil
+	return v, nil
 }
 
 // Drive returns the drive a timeline request describes (apart from its
@@ -326,7 +358,12 @@ func (req *Request) Drive() (timeline.Drive, error) {
 		if len(req.BucketEdgesS) != 2 {
 			return d, &spec.FieldError{Field: "bucket_edges_s", Reason: "want 2 edges (early|mid and mid|late)"}
 		}
-		d.BucketEdgesS = [2]float64{req.BucketEdgesS[0], req.BucketEdgesS[1]}
+		for i, e := range req.BucketEdgesS {
+			if e == nil {
+				return d, spec.Absent(spec.Index("bucket_edges_s", i))
+			}
+			d.BucketEdgesS[i] = *e
+		}
 	}
 	if err := d.Validate(); err != nil {
 		return d, err

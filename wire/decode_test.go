@@ -44,3 +44,35 @@ func TestDecodeIgnoresFieldsTheOpDoesNotRead(t *testing.T) {
 		t.Fatalf("unproject with a string pixels: %s %s", code, msg)
 	}
 }
+
+// One code per class of fault, whatever the field: a number beyond the
+// double range is invalid_value for a speed as for a camera field (speeds
+// said bad_type); a null in a number array is missing, not 0.
+func TestOneCodePerClass(t *testing.T) {
+	route := func(speeds string) string {
+		return `{"op":"metrics","id":1,"route":{"points":[{"lat":0,"lon":0},{"lat":0,"lon":1},{"lat":0,"lon":2}],"speed_mps":` + speeds + `},"user":{"lat":0,"lon":0},"markers":[]}`
+	}
+	for _, c := range []struct{ line, want string }{
+		{route(`1e400`), `"code":"invalid_value","message":"line 1: route.speed_mps = 1e400: not a finite number"`},
+		{route(`[10,1e400]`), `"code":"invalid_value","message":"line 1: route.speed_mps[1] = 1e400: not a finite number"`},
+		{route(`[10,null]`), `"code":"missing_field","message":"line 1: route.speed_mps[1]: missing (required)"`},
+		{route(`[10,"x"]`), `"code":"bad_type","message":"line 1: route.speed_mps[1]: expected a number"`},
+		{route(`"x"`), `"code":"bad_type","message":"line 1: route.speed_mps: expected a number or an array of numbers"`},
+		{`{"op":"footprint","id":1,"camera":{"lat":1e400}}`, `"code":"invalid_value","message":"line 1: camera.lat = 1e400: not a finite number"`},
+		{`{"op":"zoom","id":1,"rules":{"hysteresis_kmh":1e400},"samples":[]}`, `"code":"invalid_value","message":"line 1: rules.hysteresis_kmh = 1e400: not a finite number"`},
+	} {
+		if got := string(reference.AnswerLine([]byte(c.line), 1)); !strings.Contains(got, c.want) {
+			t.Errorf("%s\n got %s\nwant …%s…", c.line, got, c.want)
+		}
+	}
+}
+
+// A null inside bucket_edges_s is a missing edge, not an edge at 0 s.
+func TestNullBucketEdgeIsMissing(t *testing.T) {
+	line := `{"op":"timeline","id":1,"route":{"points":[{"lat":0,"lon":0},{"lat":0,"lon":0.01}],"speed_mps":10},` +
+		`"device":{"width_px":390,"height_px":844,"fov_y_deg":45},"rules":` + rulesWorked + `,"markers":[],"bucket_edges_s":[1,null]}`
+	want := `"code":"missing_field","message":"line 1: bucket_edges_s[1]: missing (required)"`
+	if got := string(reference.AnswerLine([]byte(line), 1)); !strings.Contains(got, want) {
+		t.Errorf("got %s, want …%s…", got, want)
+	}
+}

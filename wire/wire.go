@@ -33,7 +33,7 @@ type Request struct {
 	HorizonS     *float64  `json:"horizon_s,omitempty"`
 	TickS        *float64  `json:"tick_s,omitempty"`
 	Cap          *float64  `json:"cap,omitempty"`
-	BucketEdgesS []float64 `json:"bucket_edges_s,omitempty"`
+	BucketEdgesS []*float64 `json:"bucket_edges_s,omitempty"`
 }
 
 // Sample is one sample of the zoom op: a time, a speed and the
