@@ -28,11 +28,11 @@ type Request struct {
 	Samples []*Sample `json:"samples,omitempty"`
 
 	// timeline
-	Device       *Device   `json:"device,omitempty"`
-	StartAlongM  *float64  `json:"start_along_m,omitempty"`
-	HorizonS     *float64  `json:"horizon_s,omitempty"`
-	TickS        *float64  `json:"tick_s,omitempty"`
-	Cap          *float64  `json:"cap,omitempty"`
+	Device       *Device    `json:"device,omitempty"`
+	StartAlongM  *float64   `json:"start_along_m,omitempty"`
+	HorizonS     *float64   `json:"horizon_s,omitempty"`
+	TickS        *float64   `json:"tick_s,omitempty"`
+	Cap          *float64   `json:"cap,omitempty"`
 	BucketEdgesS []*float64 `json:"bucket_edges_s,omitempty"`
 }
 
