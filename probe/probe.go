@@ -122,6 +122,9 @@ type Options struct {
 	ShrinkTime time.Duration
 	// Log, when set, receives progress lines.
 	Log func(format string, args ...any)
+	// Progress, when set, is called now and then with the op being probed,
+	// the cases it has drawn and the cases it will draw.
+	Progress func(op string, done, total int)
 }
 
 // Disagreement is a disagreement (or a failure to answer) shrunk to a minimal
@@ -348,6 +351,9 @@ func scanOp(impl Impl, op string, opt *Options) (*Disagreement, error) {
 		}
 		if next := start + batch; next < opt.Checks {
 			go func() { ahead <- draw(next) }()
+		}
+		if opt.Progress != nil {
+			opt.Progress(op, start, opt.Checks)
 		}
 		cases := d.cases
 		ck := check.NewChecker(opt.Profile)

@@ -10,9 +10,7 @@ import (
 	"text/tabwriter"
 	"time"
 
-	"github.com/schollz/progressbar/v3"
 	"github.com/spf13/cobra"
-	"golang.org/x/term"
 
 	"github.com/viewspec/viewspec/check"
 	"github.com/viewspec/viewspec/corpus"
@@ -85,7 +83,7 @@ func newValidateCmd() *cobra.Command {
 				return &exitError{2, err}
 			}
 			defer f.Close()
-			problems, n, err := check.ValidateCorpus(f)
+			problems, n, err := check.ValidateCorpus(readingBar(cmd, f, "validating"))
 			if err != nil {
 				return &exitError{2, fmt.Errorf("%s: %v", args[0], err)}
 			}
@@ -241,7 +239,7 @@ answers, 2 unusable input.`,
 				return &exitError{2, err}
 			}
 			defer f.Close()
-			answers, bad, err := corpus.ReadAnswers(args[1], f)
+			answers, bad, err := corpus.ReadAnswers(args[1], readingBar(cmd, f, "reading answers"))
 			if err != nil {
 				return &exitError{2, err}
 			}
@@ -283,19 +281,11 @@ missing or out-of-order answer each end in a clear note naming the case.`,
 			if err != nil {
 				return err
 			}
-			ck := check.NewChecker(p)
-			opt := check.RunOptions{Command: impl, Timeout: timeout, Ops: only}
-			if f, ok := cmd.ErrOrStderr().(*os.File); ok && term.IsTerminal(int(f.Fd())) {
-				var bar *progressbar.ProgressBar
-				opt.Progress = func(done, total int) {
-					if bar == nil {
-						bar = progressbar.NewOptions(total, progressbar.OptionSetWriter(f),
-							progressbar.OptionSetDescription("checking"), progressbar.OptionShowCount(),
-							progressbar.OptionClearOnFinish())
-					}
-					bar.Set(done)
-				}
+			if timeout <= 0 {
+				return &exitError{2, fmt.Errorf("--timeout = %v: must be positive", timeout)}
 			}
+			ck := check.NewChecker(p)
+			opt := check.RunOptions{Command: impl, Timeout: timeout, Ops: only, Progress: countBar(cmd, "checking")}
 			res, err := check.Run(cases, opt, ck)
 			if err != nil {
 				return &exitError{2, err}

@@ -71,7 +71,8 @@ same seed draws the same cases.`,
 			defer proc.Close()
 			stderr := cmd.ErrOrStderr()
 			f, err := probe.Find(proc, probe.Options{Ops: ops, Checks: checks, Seed: seed, Profile: p, ShrinkTime: shrink,
-				Log: func(format string, args ...any) { fmt.Fprintf(stderr, "probe: "+format+"\n", args...) }})
+				Log:      func(format string, args ...any) { fmt.Fprintf(stderr, "probe: "+format+"\n", args...) },
+				Progress: probeBar(cmd)})
 			if err != nil {
 				return &exitError{2, err}
 			}
@@ -182,4 +183,19 @@ func latLons(request []byte) string {
 		}
 	}
 	return b.String()
+}
+
+// probeBar returns a progress callback drawing one bar per op on a
+// terminal, or nil.
+func probeBar(cmd *cobra.Command) func(op string, done, total int) {
+	var last string
+	var bar func(done, total int)
+	return func(op string, done, total int) {
+		if op != last {
+			last, bar = op, countBar(cmd, "probing "+op)
+		}
+		if bar != nil {
+			bar(done, total)
+		}
+	}
 }
