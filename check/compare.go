@@ -693,6 +693,10 @@ func (k *differ) timeline(want, got json.RawMessage) error {
 		// differ by a tick: borderline.
 		px := marginAt(k.m().FirstShownMarginPx, i)
 		pxBorder := px != nil && math.Abs(*px) <= k.p.PixelPx.Allowed(0)
+		// A drive that came within the angle tolerance of turning the map
+		// the other way at a U-turn (SPEC §3) may give any outcome after it.
+		turn := marginAt(k.m().TurnMarginDeg, i)
+		turnBorder := turn != nil && *turn <= k.p.PitchDeg.Allowed(0)
 		before := len(k.diffs)
 		k.optNum(path+".first_visible_s", "time_s", k.p.TimeS, wm.FirstVisibleS, gm.FirstVisibleS, nil)
 		k.optNum(path+".first_shown_s", "time_s", k.p.TimeS, wm.FirstShownS, gm.FirstShownS, nil)
@@ -701,10 +705,14 @@ func (k *differ) timeline(want, got json.RawMessage) error {
 			bm := marginAt(k.m().BucketMarginS, i)
 			k.discrete(path+".bucket", "time_s", k.p.TimeS, wm.Bucket, gm.Bucket, bm)
 		}
-		if pxBorder {
-			for j := before; j < len(k.diffs); j++ {
+		for j := before; j < len(k.diffs); j++ {
+			switch {
+			case pxBorder:
 				k.diffs[j].Borderline, k.diffs[j].Ratio = true, 0
 				k.diffs[j].Note = strings.TrimPrefix(k.diffs[j].Note+"; ", "; ") + "first shown with a margin of " + fmtF(*px) + " px"
+			case turnBorder:
+				k.diffs[j].Borderline, k.diffs[j].Ratio = true, 0
+				k.diffs[j].Note = strings.TrimPrefix(k.diffs[j].Note+"; ", "; ") + "after a U-turn decided by " + fmtF(*turn) + "°"
 			}
 		}
 	}

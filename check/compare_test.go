@@ -192,3 +192,28 @@ func TestLoadProfileErrorsNameTheLine(t *testing.T) {
 		}
 	}
 }
+
+// timelineCase is a one-marker timeline case whose expected marker is first
+// shown at 20 s (late), with the given turn margin kept apart.
+func timelineCase(turnMarginDeg string) *corpus.Case {
+	return &corpus.Case{ID: "t", Op: "timeline", Family: "u_turn",
+		Request: json.RawMessage(`{"op":"timeline","id":"t"}`),
+		Expect:  json.RawMessage(`{"id":"t","markers":[{"id":"m0","first_visible_s":20,"first_shown_s":20,"shown_s":0.5,"bucket":"late"}]}`),
+		Margins: json.RawMessage(`{"bucket_margin_s":[5],"first_shown_margin_px":[40],"turn_margin_deg":[` + turnMarginDeg + `]}`)}
+}
+
+// After a U-turn decided within the angle tolerance (SPEC §3), a timeline
+// that differs is borderline; after one decided by more, it fails.
+func TestTimelineAfterKnifeEdgeTurnIsBorderline(t *testing.T) {
+	never := json.RawMessage(`{"id":"t","markers":[{"id":"m0","first_visible_s":null,"first_shown_s":null,"shown_s":0,"bucket":"never"}]}`)
+	strict := check.Profiles["strict"]
+	if st, diffs := check.Compare(timelineCase("5e-10"), never, &strict); st != check.Borderline {
+		t.Errorf("turn margin 5e-10° (strict tolerance 1e-9°): %v %+v, want borderline", st, diffs)
+	}
+	if st, _ := check.Compare(timelineCase("0.001"), never, &strict); st != check.Fail {
+		t.Errorf("turn margin 0.001°: %v, want fail", st)
+	}
+	if st, _ := check.Compare(timelineCase("null"), never, &strict); st != check.Fail {
+		t.Errorf("no limited turn before the outcome: %v, want fail", st)
+	}
+}

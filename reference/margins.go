@@ -38,10 +38,17 @@ func moveMargins(ans any, m *wire.Margins) {
 	case *wire.TimelineAnswer:
 		m.BucketMarginS = make([]*float64, len(a.Markers))
 		m.FirstShownMarginPx = make([]*float64, len(a.Markers))
+		turn := make([]*float64, len(a.Markers))
+		anyTurn := false
 		for i := range a.Markers {
 			mk := &a.Markers[i]
 			m.BucketMarginS[i], mk.BucketMarginS = mk.BucketMarginS, nil
 			m.FirstShownMarginPx[i], mk.FirstShownMarginPx = mk.FirstShownMarginPx, nil
+			turn[i], mk.TurnMarginDeg = mk.TurnMarginDeg, nil
+			anyTurn = anyTurn || turn[i] != nil
+		}
+		if anyTurn {
+			m.TurnMarginDeg = turn
 		}
 	}
 }

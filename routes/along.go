@@ -67,6 +67,12 @@ func (r *Route) SpeedMpsAt(alongM float64) float64 {
 // timeAt returns the travel time in seconds from the route's start to along-route position alongM.
 func (r *Route) timeAt(alongM float64) float64 {
 	along := r.clampAlong(alongM)
+	if along >= r.LengthM() {
+		// The end exactly: its time read back gives the end again, so a
+		// drive that starts there is stopped at t = 0 (the sum over the
+		// last segment can round a hair below DurationS otherwise).
+		return r.DurationS()
+	}
 	return r.timeAtS(segmentIn(r.startM, along), along)
 }
 

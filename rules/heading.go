@@ -2,9 +2,19 @@ package rules
 
 import "math"
 
+// OppositeWithinDeg is how near to exactly opposite a target counts as opposite and turns clockwise
+// (SPEC §3): the short way round is decided on |d| < 180 − OppositeWithinDeg, where d is the signed
+// difference of the headings, so that two implementations whose headings of a U-turn's two legs
+// differ in the last bits (atan2 of differences that are negatives of each other, computed
+// separately, or a return leg whose vertices were rounded) still turn the same way. 1e-6° is far
+// beyond that rounding (1e-13° for the same vertices, ~1e-9° for vertices rounded to 1e-12°) and far
+// below any turn a route means (a 1e-6° bend over 10 km moves the road 0.17 mm).
+const OppositeWithinDeg = 1e-6
+
 // TurnHeadingDeg turns a heading toward a target heading by at most maxStepDeg degrees and returns the
 // new heading. Headings are degrees clockwise from true north; inputs may be any finite angle and the
-// result is in [0, 360). The turn goes the short way round; a target exactly opposite turns clockwise.
+// result is in [0, 360). The turn goes the short way round; a target within OppositeWithinDeg of
+// exactly opposite turns clockwise.
 // When the target is within maxStepDeg the result is the target (normalised). The drive timeline calls it
 // once a tick with maxStepDeg = max_turn_rate_deg_per_s × tick_s, which bounds how fast the heading-up
 // map rotates on screen.
@@ -26,7 +36,11 @@ func TurnHeadingDeg(currentDeg, targetDeg, maxStepDeg float64) float64 {
 	} else if d <= -180 {
 		d += 360
 	}
-	// d is now the signed short turn, in (−180, 180].
+	// d is now the signed short turn, in (−180, 180]; within OppositeWithinDeg of ±180 it is +180,
+	// clockwise.
+	if math.Abs(d) >= 180-OppositeWithinDeg {
+		d = 180
+	}
 	switch {
 	case math.Abs(d) <= maxStepDeg:
 		return tgt
@@ -51,4 +65,26 @@ func norm360(deg float64) float64 {
 		return 0
 	}
 	return r
+}
+
+// TurnMarginDeg returns how far the direction of the turn TurnHeadingDeg makes from currentDeg toward
+// targetDeg with step maxStepDeg is from going the other way, in degrees: ||d| − (180 −
+// OppositeWithinDeg)|, with d the signed short difference. It is +Inf when the step reaches the target
+// (the direction then does not matter) or an input is not finite. Two implementations whose
+// headings agree to within this margin turn the same way.
+func TurnMarginDeg(currentDeg, targetDeg, maxStepDeg float64) float64 {
+	if math.IsNaN(maxStepDeg) || math.IsNaN(currentDeg) || math.IsNaN(targetDeg) ||
+		math.IsInf(currentDeg, 0) || math.IsInf(targetDeg, 0) {
+		return math.Inf(1)
+	}
+	d := norm360(targetDeg) - norm360(currentDeg)
+	if d > 180 {
+		d -= 360
+	} else if d <= -180 {
+		d += 360
+	}
+	if math.Abs(d) <= maxStepDeg || maxStepDeg <= 0 {
+		return math.Inf(1)
+	}
+	return math.Abs(math.Abs(d) - (180 - OppositeWithinDeg))
 }

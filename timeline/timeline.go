@@ -143,6 +143,12 @@ type Result struct {
 	// tick may differ between implementations that agree within half a
 	// pixel.
 	FirstShownMarginPx float64
+	// TurnMarginDeg is how near the drive came, up to the marker's first
+	// showing (the whole drive when it was never shown), to turning the
+	// map the other way round at a U-turn (rules.TurnMarginDeg), degrees;
+	// +Inf when no turn was limited by the turn rate. Under the angle
+	// tolerance, implementations may show the marker at different times.
+	TurnMarginDeg float64
 }
 
 // Compute runs the drive of SPEC §5 and returns, for each marker in the
@@ -226,6 +232,8 @@ type driveRun struct {
 
 	// seen keeps which markers are in view from tick to tick.
 	seen seer
+	// turnMin is the smallest turn margin so far (rules.TurnMarginDeg).
+	turnMin float64
 }
 
 // seer is what the run asks of its in-view tracking: a viewport.Tracker,
@@ -239,10 +247,11 @@ type seer interface {
 
 func newDriveRun(d *Drive, ms []Marker, merc []viewport.Mercator) *driveRun {
 	return &driveRun{d: d, ms: ms, merc: merc,
-		turns: d.Route.Turns(d.Rules.Turn.MinAngleDeg),
-		out:   make([]Result, len(merc)),
-		shown: make([]int, 0, d.Cap),
-		seen:  viewport.NewTracker(merc),
+		turns:   d.Route.Turns(d.Rules.Turn.MinAngleDeg),
+		out:     make([]Result, len(merc)),
+		shown:   make([]int, 0, d.Cap),
+		seen:    viewport.NewTracker(merc),
+		turnMin: math.Inf(1),
 	}
 }
 
@@ -278,7 +287,11 @@ func (r *driveRun) run() ([]Result, error) {
 			if err := st.Step(d.TickS, speed, turnDist, hasTurn); err != nil {
 				return nil, err
 			}
-			heading = rules.TurnHeadingDeg(heading, target, d.Rules.MaxTurnRateDegPerS*d.TickS)
+			step := d.Rules.MaxTurnRateDegPerS * d.TickS
+			if m := rules.TurnMarginDeg(heading, target, step); m < r.turnMin {
+				r.turnMin = m
+			}
+			heading = rules.TurnHeadingDeg(heading, target, step)
 		}
 		pos := walk.PointAt(along)
 		cam.LatDeg, cam.LonDeg = pos[1], pos[0]
@@ -337,7 +350,7 @@ func (r *driveRun) tick(k int, t float64, v *viewport.View) {
 		r.shown = append(r.shown, best)
 		o := &r.out[best]
 		if !o.Shown {
-			o.Shown, o.FirstShownS = true, t
+			o.Shown, o.FirstShownS, o.TurnMarginDeg = true, t, r.turnMin
 			// Its own margin now, and at the tick before (where it has a
 			// pixel there).
 			o.FirstShownMarginPx = math.Abs(v.ProjectMercator(r.merc[best]).MarginPx)
@@ -378,7 +391,7 @@ func (r *driveRun) finish() {
 		o := &r.out[i]
 		o.ShownS *= d.TickS
 		if !o.Shown {
-			o.Bucket = Never
+			o.Bucket, o.TurnMarginDeg = Never, r.turnMin
 			continue
 		}
 		t := o.FirstShownS

@@ -374,10 +374,14 @@ func (req *Request) Drive() (timeline.Drive, error) {
 // TimelineOf returns the wire lines of a timeline's results.
 func TimelineOf(ms []timeline.Marker, got []timeline.Result) []MarkerTimeline {
 	out := make([]MarkerTimeline, len(got))
-	nums := make([]float64, 4*len(got))
+	nums := make([]float64, 5*len(got))
 	for i, g := range got {
 		o := MarkerTimeline{ID: ms[i].ID, ShownS: g.ShownS, Bucket: g.Bucket.String()}
-		n := nums[4*i : 4*i+4]
+		n := nums[5*i : 5*i+5]
+		if !math.IsInf(g.TurnMarginDeg, 0) {
+			n[4] = g.TurnMarginDeg
+			o.TurnMarginDeg = &n[4]
+		}
 		if g.Visible {
 			n[0] = g.FirstVisibleS
 			o.FirstVisibleS = &n[0]

@@ -10,4 +10,7 @@ type Margins struct {
 	SideMarginM        []*float64 `json:"side_margin_m,omitempty"`
 	BucketMarginS      []*float64 `json:"bucket_margin_s,omitempty"`
 	FirstShownMarginPx []*float64 `json:"first_shown_margin_px,omitempty"`
+	// TurnMarginDeg is present only when some marker's outcome came after
+	// a turn limited by the turn rate (see MarkerTimeline).
+	TurnMarginDeg []*float64 `json:"turn_margin_deg,omitempty"`
 }

@@ -64,6 +64,10 @@ type MarkerTimeline struct {
 	Bucket             string   `json:"bucket"`
 	BucketMarginS      *float64 `json:"bucket_margin_s,omitempty"`
 	FirstShownMarginPx *float64 `json:"first_shown_margin_px,omitempty"`
+	// TurnMarginDeg is present when the drive limited a turn before the
+	// marker's outcome was decided: how near that turn came to going the
+	// other way round (SPEC §3), degrees.
+	TurnMarginDeg *float64 `json:"turn_margin_deg,omitempty"`
 }
 
 // TimelineAnswer answers op timeline: one line per marker, in the order
