@@ -262,8 +262,8 @@ func TestSyntaxErrorLines(t *testing.T) {
 		{"a: 1\n---\nb: 2\n", 2, 1},                 // a second document
 		{"bands: 1\nx: *nope\n", 2, 4},              // an alias to no anchor
 		{"x: 1\ny: 2\nz: &a [*a, *a]\n", 3, 0},      // alias cycle: reported with its node
-		{"\x00", 1, 0},                              // control character
-		{"a: 1\n\xff\xfe: 2\n", 1, 0},               // not UTF-8
+		{"\x00", 1, 1},                              // control character, at its column
+		{"a: 1\n\xff\xfe: 2\n", 2, 1},               // not UTF-8: the line and column of the bad byte
 		{"%YAML 1.1\n%YAML 1.1\n---\na: 1\n", 2, 0}, // parser: a duplicate directive
 	}
 	for _, c := range cases {

@@ -11,6 +11,8 @@ import (
 	"strconv"
 	"strings"
 	"unicode"
+	"unicode/utf16"
+	"unicode/utf8"
 
 	"github.com/santhosh-tekuri/jsonschema/v6"
 	"github.com/santhosh-tekuri/jsonschema/v6/kind"
@@ -88,6 +90,10 @@ func check(data []byte, name string, wantWarnings bool) (set *Set, fs []Finding)
 				Message: fmt.Sprintf("the YAML parser failed: %v", r)}}
 		}
 	}()
+	data, ok := c.checkText(data)
+	if !ok {
+		return nil, c.finish()
+	}
 	root := c.parseYAML(data)
 	if root == nil {
 		return nil, c.finish()
@@ -258,6 +264,132 @@ var parserProblems = []string{
 
 var yamlLine = regexp.MustCompile(`^yaml: line (\d+): (.*)$`)
 var unknownAnchor = regexp.MustCompile(`^yaml: unknown anchor '(.*)' referenced$`)
+
+// checkText returns the text as UTF-8 without a byte order mark, ready for the YAML parser, or records
+// the first character the parser would refuse and returns false. The YAML parser refuses invalid UTF-8
+// and control characters too, but names no place (its reader reports them all on line 1), so the text
+// is scanned here first and the character is reported at its own line and column: lines end at LF, CR
+// LF or a lone CR, and columns count characters from 1 (an invalid byte counts as one), as the YAML
+// parser counts them for every other finding. A UTF-16 text with its byte order mark, which the YAML
+// parser also reads, is turned into UTF-8 first, and positions are those of its characters.
+func (c *checker) checkText(data []byte) ([]byte, bool) {
+	text, bad := textOf(data)
+	if bad == nil {
+		bad = badChar(text)
+	}
+	if bad == nil {
+		return text, true
+	}
+	c.addLine(KindSyntax, bad.line, bad.col, bad.msg)
+	c.structural = true
+	return nil, false
+}
+
+// badText is the first character of a text that a rule file may not hold, and where it is.
+type badText struct {
+	line, col int // 1-based; col counts characters
+	msg       string
+}
+
+// textOf returns data as UTF-8 without a byte order mark: as it is when it is not UTF-16, or decoded from
+// UTF-16 when it starts with a UTF-16 byte order mark (FF FE little-endian, FE FF big-endian). A UTF-16
+// text of odd length is reported at its end, an unpaired surrogate at its character.
+func textOf(data []byte) ([]byte, *badText) {
+	var big bool
+	switch {
+	case bytes.HasPrefix(data, []byte{0xEF, 0xBB, 0xBF}):
+		return data[3:], nil
+	case bytes.HasPrefix(data, []byte{0xFF, 0xFE}):
+	case bytes.HasPrefix(data, []byte{0xFE, 0xFF}):
+		big = true
+	default:
+		return data, nil
+	}
+	units := make([]uint16, 0, len(data)/2)
+	for i := 2; i+1 < len(data); i += 2 {
+		if big {
+			units = append(units, uint16(data[i])<<8|uint16(data[i+1]))
+		} else {
+			units = append(units, uint16(data[i+1])<<8|uint16(data[i]))
+		}
+	}
+	var out []byte
+	var pos textPos
+	for i := 0; i < len(units); i++ {
+		r := rune(units[i])
+		switch {
+		case utf16.IsSurrogate(r) && i+1 < len(units) && utf16.DecodeRune(r, rune(units[i+1])) != utf8.RuneError:
+			r = utf16.DecodeRune(r, rune(units[i+1]))
+			i++
+		case utf16.IsSurrogate(r):
+			return nil, &badText{pos.line(), pos.col(), fmt.Sprintf("unpaired UTF-16 surrogate %#04x: not a character", units[i])}
+		}
+		out = utf8.AppendRune(out, r)
+		pos.next(r)
+	}
+	if len(data)%2 == 1 {
+		return nil, &badText{pos.line(), pos.col(), "a UTF-16 text (it starts with a UTF-16 byte order mark) of an odd number of bytes: its last byte is half a character"}
+	}
+	return out, nil
+}
+
+// textPos counts lines and characters as the YAML parser does: a line ends at LF, CR LF or a lone CR.
+type textPos struct {
+	lines, cols int // 0-based
+	cr          bool
+}
+
+func (p *textPos) line() int { return p.lines + 1 }
+func (p *textPos) col() int  { return p.cols + 1 }
+
+// next moves past the character r.
+func (p *textPos) next(r rune) {
+	switch {
+	case r == '\n' && p.cr: // the LF of a CR LF: the CR ended the line
+		p.cr = false
+	case r == '\n' || r == '\r':
+		p.lines, p.cols, p.cr = p.lines+1, 0, r == '\r'
+	default:
+		p.cols++
+		p.cr = false
+	}
+}
+
+// badChar finds the first byte of text that is not UTF-8 or is a character YAML does not allow in a
+// document: a control character other than tab, LF and CR (C0, DEL, or C1 including NEL), a surrogate
+// (which is not UTF-8) or the noncharacters U+FFFE and U+FFFF. It says how many more follow, so that one
+// message tells how damaged the text is.
+func badChar(text []byte) *badText {
+	var first *badText
+	more := 0
+	var pos textPos
+	for i := 0; i < len(text); {
+		r, size := utf8.DecodeRune(text[i:])
+		var msg string
+		switch {
+		case r == utf8.RuneError && size <= 1:
+			msg = fmt.Sprintf("byte %#02x is not UTF-8: a rule file is UTF-8 text", text[i])
+		case r == '\t' || r == '\n' || r == '\r':
+		case r < 0x20 || (r >= 0x7F && r <= 0x9F):
+			msg = fmt.Sprintf("control character U+%04X: YAML allows no control character but tab, line feed and carriage return", r)
+		case r == 0xFFFE || r == 0xFFFF:
+			msg = fmt.Sprintf("U+%04X is not a character: YAML does not allow it", r)
+		}
+		if msg != "" {
+			if first == nil {
+				first = &badText{pos.line(), pos.col(), msg}
+			} else {
+				more++
+			}
+		}
+		pos.next(r)
+		i += size
+	}
+	if first != nil && more > 0 {
+		first.msg += fmt.Sprintf(" (and %d more after it)", more)
+	}
+	return first
+}
 
 // parseYAML reads exactly one YAML document and returns its root node, or nil after recording why not.
 func (c *checker) parseYAML(data []byte) *yaml.Node {

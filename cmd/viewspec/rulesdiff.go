@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"os"
@@ -12,6 +13,9 @@ import (
 	"github.com/viewspec/viewspec/corpus"
 	"github.com/viewspec/viewspec/gate"
 	"github.com/viewspec/viewspec/render"
+	"github.com/viewspec/viewspec/rules"
+	"github.com/viewspec/viewspec/spec"
+	"github.com/viewspec/viewspec/timeline"
 )
 
 // rulesDiff is `rules diff`: its flags, and the steps of a run.
@@ -20,6 +24,10 @@ type rulesDiff struct {
 	markersFile, deviceFile string
 	markdown                string
 	asJSON                  bool
+	// The timeline's parameters (SPEC §5), defaults as there.
+	horizonS, tickS float64
+	capN            int
+	edgesS          []float64
 }
 
 func newRulesDiffCmd() *cobra.Command {
@@ -32,16 +40,31 @@ reports, per drive and in total: the markers moving between buckets
 (early/mid/late/never → early/mid/late/never), the shown seconds gained and
 lost, the footprint's area-seconds, the zoom and pitch ranges and how often
 the speed band changes. --fail-if gates on the total's measures and exits 1
-naming each condition that holds. A drive file is a route with its speed
-profile: GeoJSON with properties.speed_mps, or GPX 1.1 with times (SPEC §4);
-a folder stands for its drive files.
+naming each condition that holds. Every drive runs with the same timeline
+(--horizon-s, --tick-s, --cap, --bucket-edges-s; SPEC §5 defaults).
+
+A drive file is a route with its speed profile: GeoJSON with a LineString
+feature with properties.speed_mps, or GPX 1.1 with a time on every point
+(SPEC §4, §8); it is named by its file name. A file given to --drives must
+be a drive. A folder stands for the drives among its *.geojson, *.json and
+*.gpx files; the others (markers, streets, footprints) are skipped, each
+named on stderr with the reason, and a folder without any drive is an
+error.
+
+The reports list the markers that moved between buckets, by id and (from
+a GeoJSON marker file's properties.name) name, with when each was first
+shown under each rule set. lost_shown_pct and gained_shown_pct are ≥ 0:
+lost_shown_pct 10 means the new rules show markers for 10 % less of the
+base rules' shown time.
 
 Measures: ` + strings.Join(gate.MeasureNames(), ", ") + `.`,
 		Example: `  viewspec rules diff phone.yaml phone-new.yaml --drives drives/ --markers shops.csv
   viewspec rules diff phone.yaml phone-new.yaml --drives drives/ --markers shops.csv \
       --fail-if 'lost_shown_pct > 5' --fail-if 'never_added > 0' --markdown review/rules.md`,
 		Args: cobra.ExactArgs(2),
-		RunE: func(cmd *cobra.Command, args []string) error { return rd.run(cmd.OutOrStdout(), args[0], args[1]) },
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return rd.run(cmd.OutOrStdout(), cmd.ErrOrStderr(), args[0], args[1])
+		},
 	}
 	cmd.Flags().StringArrayVar(&rd.drives, "drives", nil, "drive `FILE` or folder of drive files (repeatable)")
 	cmd.Flags().StringVar(&rd.markersFile, "markers", "", "markers `FILE`: CSV id,lat,lon[,priority] or GeoJSON points")
@@ -49,15 +72,25 @@ Measures: ` + strings.Join(gate.MeasureNames(), ", ") + `.`,
 	cmd.Flags().StringArrayVar(&rd.failIf, "fail-if", nil, "gate condition `EXPR` on the total, e.g. 'lost_shown_pct > 5' (repeatable)")
 	cmd.Flags().StringVar(&rd.markdown, "markdown", "", "also write a markdown report to `FILE`, with its plots beside it")
 	cmd.Flags().BoolVar(&rd.asJSON, "json", false, "print the report as JSON")
+	cmd.Flags().Float64Var(&rd.horizonS, "horizon-s", 120, "how long each drive runs, seconds")
+	cmd.Flags().Float64Var(&rd.tickS, "tick-s", 0.25, "time step, seconds (must divide the horizon)")
+	cmd.Flags().IntVar(&rd.capN, "cap", 4, "markers shown at once")
+	cmd.Flags().Float64SliceVar(&rd.edgesS, "bucket-edges-s", []float64{5, 35}, "bucket edges `E1,E2`, seconds: early before E1, mid before E2, late to the horizon")
 	return cmd
 }
 
 // run compares the rule files basePath and newPath on the drives, writes
 // the report, and fails when a gate condition holds.
-func (rd *rulesDiff) run(out io.Writer, basePath, newPath string) error {
-	trips, setup, conds, err := rd.load()
+func (rd *rulesDiff) run(out, errOut io.Writer, basePath, newPath string) error {
+	in, err := rd.load()
 	if err != nil {
 		return err
+	}
+	if len(in.trips) == 0 { // not expected: ReadTrips errs on a folder without drives
+		return &exitError{2, fmt.Errorf("--drives %s: no drive", strings.Join(rd.drives, " "))}
+	}
+	for _, s := range in.skipped {
+		fmt.Fprintf(errOut, "viewspec: skipped %s: %s\n", s.File, s.Reason)
 	}
 	base, err := readRules(basePath)
 	if err != nil {
@@ -67,11 +100,15 @@ func (rd *rulesDiff) run(out io.Writer, basePath, newPath string) error {
 	if err != nil {
 		return err
 	}
-	rep, err := gate.CompareRules(trips, base, next, setup)
+	if err := rd.checkTimeline(in.trips[0], in.setup, base); err != nil {
+		return err
+	}
+	rep, err := gate.CompareRules(in.trips, base, next, in.setup)
 	if err != nil {
 		return &exitError{2, err}
 	}
-	verdicts := rep.Check(conds)
+	rep.Skipped = append(rep.Skipped, in.skipped...)
+	verdicts := rep.Check(in.conds)
 	if err := rd.write(out, rep, filepath.Base(basePath), filepath.Base(newPath), verdicts); err != nil {
 		return err
 	}
@@ -87,33 +124,79 @@ func (rd *rulesDiff) run(out io.Writer, basePath, newPath string) error {
 	return nil
 }
 
-// load reads the drives, the markers, the device and the gate conditions.
-func (rd *rulesDiff) load() ([]gate.Trip, gate.Setup, []gate.Condition, error) {
-	var setup gate.Setup
+// diffInputs are what a run reads before the rule files.
+type diffInputs struct {
+	trips   []gate.Trip
+	skipped []gate.Skipped // files of drive folders that are not drives
+	setup   gate.Setup
+	conds   []gate.Condition
+}
+
+// load reads the drives (and which files of their folders are not
+// drives), the markers and their names, the device, the timeline's flags
+// and the gate conditions.
+func (rd *rulesDiff) load() (*diffInputs, error) {
+	in := &diffInputs{}
 	if len(rd.drives) == 0 {
-		return nil, setup, nil, &exitError{2, fmt.Errorf("--drives DIR|FILE is required")}
+		return nil, &exitError{2, fmt.Errorf("--drives DIR|FILE is required")}
 	}
-	trips, err := gate.ReadTrips(rd.drives)
-	if err != nil {
-		return nil, setup, nil, &exitError{2, err}
+	if len(rd.edgesS) != 2 {
+		return nil, &exitError{2, fmt.Errorf("--bucket-edges-s wants 2 values, E1,E2, got %d", len(rd.edgesS))}
 	}
-	if rd.markersFile != "" {
-		if setup.Markers, err = readMarkersFile(rd.markersFile); err != nil {
-			return nil, setup, nil, err
-		}
-	}
-	if setup.Device, err = readDevice(rd.deviceFile); err != nil {
-		return nil, setup, nil, err
-	}
-	var conds []gate.Condition
 	for _, s := range rd.failIf {
 		c, err := gate.ParseCondition(s)
 		if err != nil {
-			return nil, setup, nil, &exitError{2, fmt.Errorf("--fail-if %v", err)}
+			return nil, &exitError{2, fmt.Errorf("--fail-if %v", err)}
 		}
-		conds = append(conds, c)
+		in.conds = append(in.conds, c)
 	}
-	return trips, setup, conds, nil
+	var err error
+	if in.trips, in.skipped, err = gate.ReadTrips(rd.drives); err != nil {
+		return nil, &exitError{2, err}
+	}
+	if rd.markersFile != "" {
+		if in.setup.Markers, err = readMarkersFile(rd.markersFile); err != nil {
+			return nil, err
+		}
+		data, err := os.ReadFile(rd.markersFile)
+		if err != nil {
+			return nil, &exitError{2, err}
+		}
+		in.setup.MarkerNames = gate.ReadMarkerNames(data)
+	}
+	if in.setup.Device, err = readDevice(rd.deviceFile); err != nil {
+		return nil, err
+	}
+	horizon, tick, capN, edges := rd.horizonS, rd.tickS, rd.capN, [2]float64{rd.edgesS[0], rd.edgesS[1]}
+	in.setup.Configure = func(d *timeline.Drive) {
+		d.HorizonS, d.TickS, d.Cap, d.BucketEdgesS = horizon, tick, capN, edges
+	}
+	return in, nil
+}
+
+// timelineFlags names the flag of each timeline field.
+var timelineFlags = map[string]string{
+	"horizon_s": "--horizon-s", "tick_s": "--tick-s", "cap": "--cap",
+	"bucket_edges_s[0]": "--bucket-edges-s", "bucket_edges_s[1]": "--bucket-edges-s",
+}
+
+// checkTimeline checks the timeline's flags as the timeline does (on the
+// first drive, with the base rules), so that a bad value is told once,
+// naming its flag, before any drive runs.
+func (rd *rulesDiff) checkTimeline(first gate.Trip, setup gate.Setup, base *rules.Set) error {
+	d := timeline.NewDrive(first.Route, first.StartAlongM, setup.Device, base)
+	setup.Configure(&d)
+	var fe *spec.FieldError
+	if err := d.Validate(); errors.As(err, &fe) {
+		if flag, ok := timelineFlags[fe.Field]; ok {
+			value := fe.Value
+			if flag == "--bucket-edges-s" {
+				value = spec.FormatNumber(rd.edgesS[0]) + "," + spec.FormatNumber(rd.edgesS[1])
+			}
+			return &exitError{2, fmt.Errorf("%s %s: %s", flag, value, fe.Reason)}
+		}
+	}
+	return nil // any other problem is the drive's, and CompareRules names it
 }
 
 // write prints the report (text or JSON) and writes the markdown report
@@ -157,6 +240,7 @@ func writeDiffPlots(markdown string, rep *gate.Comparison, baseName, newName str
 	}
 	stem := strings.TrimSuffix(filepath.Base(markdown), filepath.Ext(markdown))
 	var plots []gate.Plot
+	fileNames := plotNames(rep.Drives)
 	write := func(title, file string, svg []byte) error {
 		if err := corpus.WriteFileAtomic(filepath.Join(dir, file), func(w io.Writer) error {
 			_, err := w.Write(svg)
@@ -167,7 +251,7 @@ func writeDiffPlots(markdown string, rep *gate.Comparison, baseName, newName str
 		plots = append(plots, gate.Plot{Title: title, File: file})
 		return nil
 	}
-	for _, dd := range rep.Drives {
+	for k, dd := range rep.Drives {
 		for _, q := range []struct {
 			name, unit string
 			base, next []float64
@@ -175,13 +259,14 @@ func writeDiffPlots(markdown string, rep *gate.Comparison, baseName, newName str
 			{"zoom", "zoom level", dd.Base.Trace.Zoom, dd.New.Trace.Zoom},
 			{"pitch", "pitch, degrees", dd.Base.Trace.PitchDeg, dd.New.Trace.PitchDeg},
 		} {
-			svg, err := render.LinesSVG(fmt.Sprintf("%s over time, drive %s", q.name, dd.Name),
+			title := fmt.Sprintf("%s: %s over time", dd.Name, q.name)
+			svg, err := render.LinesSVG(title,
 				render.Series{Name: baseName, XLabel: "time, s", YLabel: q.unit, X: dd.Base.Trace.TimesS, Y: q.base},
 				render.Series{Name: newName, XLabel: "time, s", YLabel: q.unit, X: dd.New.Trace.TimesS, Y: q.next})
 			if err != nil {
 				return nil, err
 			}
-			if err := write(fmt.Sprintf("%s over time, drive %s", q.name, dd.Name), fmt.Sprintf("%s-%s-%s.svg", stem, dd.Name, q.name), svg); err != nil {
+			if err := write(title, fmt.Sprintf("%s-%s-%s.svg", stem, fileNames[k], q.name), svg); err != nil {
 				return nil, err
 			}
 		}
@@ -215,4 +300,30 @@ func moveGroup(from, to int) string {
 		return "later"
 	}
 	return "earlier"
+}
+
+// plotNames returns, for each drive, a name for its plot files: the
+// drive's name with every character that is not a letter, a digit, '.',
+// '-' or '_' turned into '-', and a number added when two come out alike.
+func plotNames(drives []gate.TripDiff) []string {
+	names := make([]string, len(drives))
+	used := map[string]bool{}
+	for i, dd := range drives {
+		n := strings.Map(func(r rune) rune {
+			if r == '.' || r == '-' || r == '_' || ('a' <= r && r <= 'z') || ('A' <= r && r <= 'Z') || ('0' <= r && r <= '9') {
+				return r
+			}
+			return '-'
+		}, dd.Name)
+		n = strings.Trim(n, "-.")
+		if n == "" {
+			n = "drive"
+		}
+		for k, base := 2, n; used[n]; k++ {
+			n = fmt.Sprintf("%s-%d", base, k)
+		}
+		used[n] = true
+		names[i] = n
+	}
+	return names
 }
