@@ -12,8 +12,11 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"runtime/debug"
 
 	"github.com/spf13/cobra"
+
+	"github.com/viewspec/viewspec/spec"
 )
 
 func main() { os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr)) }
@@ -53,11 +56,24 @@ func newRoot() *cobra.Command {
 navigation map shows: the camera's footprint on the ground, where each marker
 lands on the screen, and whether it is in view. It answers the wire as the
 reference implementation and prints cameras in readable, JSON or GeoJSON form.`,
+		Version:       moduleVersion(),
 		SilenceUsage:  true,
 		SilenceErrors: true,
 	}
-	root.AddCommand(newEvalCmd(), newFootprintCmd(), newProjectCmd(), newMetricsCmd(),
+	root.SetVersionTemplate("viewspec {{.Version}}, spec " + spec.Version + "\n")
+	root.AddCommand(newEvalCmd(), newFootprintCmd(), newProjectCmd(), newUnprojectCmd(), newMetricsCmd(),
 		newRulesCmd(), newZoomCmd(), newTimelineCmd(),
 		newFixturesCmd(), newCheckCmd(), newRunCmd(), newProbeCmd(), newRenderCmd(), newDemoCmd())
 	return root
+}
+
+// moduleVersion returns the version of the main module as the build
+// recorded it: a release tag or pseudo-version when installed from a module
+// or built in a checkout with version control, "(devel)" otherwise (and in
+// tests).
+func moduleVersion() string {
+	if bi, ok := debug.ReadBuildInfo(); ok && bi.Main.Version != "" {
+		return bi.Main.Version
+	}
+	return "(devel)"
 }

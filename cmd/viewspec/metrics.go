@@ -70,21 +70,8 @@ func readMarkersFile(name string) ([]timeline.Marker, error) {
 	return ms, nil
 }
 
-// given reports whether any camera input was given on the command line.
-func (cf *cameraFlags) given(cmd *cobra.Command) bool {
-	if cf.file != "" {
-		return true
-	}
-	for name := range cameraFields {
-		if cmd.Flags().Changed(name) {
-			return true
-		}
-	}
-	return false
-}
-
 func newMetricsCmd() *cobra.Command {
-	var cf cameraFlags
+	cf := cameraFlags{atUser: true}
 	var rf routeFlags
 	var userArg, markersFile string
 	var asJSON, asCSV bool
@@ -94,9 +81,12 @@ func newMetricsCmd() *cobra.Command {
 		Long: `metrics places the user on the route and prints, for each marker: the
 geodesic distance from the user, the distance to the route ahead, how far
 along the route and how many seconds away its nearest point ahead is (none
-when the route ends before it), and its side of the road. With a camera
-(--camera FILE or any camera flag) it adds the ground distance to the
-footprint (0 inside).`,
+when the route ends before it), and its side of the road.
+
+With a camera (--camera FILE or any camera flag) it adds each marker's
+ground distance to the camera's footprint (0 inside). The camera stands
+where the user is and looks along the route unless a flag or the file says
+otherwise (see below), and the table shows it.`,
 		Example: `  viewspec metrics --route drive.geojson --user 44.9312,-31.1704 --markers shops.csv
   viewspec metrics --route drive.gpx --speed-mps 13.9 --user 44.9312,-31.1704 --markers shops.geojson --pitch 50 --csv`,
 		Args: cobra.NoArgs,
@@ -119,7 +109,9 @@ footprint (0 inside).`,
 			var view *viewport.View
 			var fp viewport.Footprint
 			if cf.given(cmd) {
-				v, err := cf.view(cmd)
+				place := r.Snap(user)
+				at := cameraPlace{LatDeg: user[1], LonDeg: user[0], HeadingDeg: r.HeadingDegAt(place.AlongM)}
+				v, err := cf.viewAt(cmd, &at)
 				if err != nil {
 					return err
 				}
@@ -134,7 +126,7 @@ footprint (0 inside).`,
 			case asCSV:
 				return writeMetricsCSV(out, rows, view != nil)
 			}
-			return printMetrics(out, r, user, rows, view != nil)
+			return printMetrics(out, r, user, rows, view)
 		},
 	}
 	rf.register(cmd)
@@ -182,10 +174,15 @@ func writeMetricsCSV(w io.Writer, rows []wire.MarkerMetrics, withView bool) erro
 	return cw.Error()
 }
 
-func printMetrics(w io.Writer, r *routes.Route, user [2]float64, rows []wire.MarkerMetrics, withView bool) error {
+func printMetrics(w io.Writer, r *routes.Route, user [2]float64, rows []wire.MarkerMetrics, view *viewport.View) error {
+	withView := view != nil
 	place := r.Snap(user)
 	fmt.Fprintf(w, "route  %d segments, %s, %.0f s end to end\n", r.NumSegments(), meters(r.LengthM()), r.DurationS())
-	fmt.Fprintf(w, "user   %.6f, %.6f → on the route %s from the start, %s off it\n\n", user[1], user[0], meters(place.AlongM), meters(place.DistM))
+	fmt.Fprintf(w, "user   %.6f, %.6f → on the route %s from the start, %s off it\n", user[1], user[0], meters(place.AlongM), meters(place.DistM))
+	if withView {
+		printCamera(w, view)
+	}
+	fmt.Fprintln(w)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 	head := "marker\tfrom user m\tto route m\talong m\teta s\tside\t"
 	if withView {

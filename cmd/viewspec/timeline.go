@@ -18,7 +18,8 @@ import (
 )
 
 // readDevice reads a device JSON object (SPEC §2) from a file, or returns
-// the default phone when name is empty.
+// the default camera's phone when name is empty (390×844 px, fov_y 45°,
+// SPEC §2's defaults for the rest, as for a camera).
 func readDevice(name string) (viewport.Device, error) {
 	if name == "" {
 		return defaultCamera().Device, nil
@@ -54,7 +55,7 @@ func (df *driveFlags) register(cmd *cobra.Command) {
 	f := cmd.Flags()
 	f.StringVar(&df.markersFile, "markers", "", "markers `FILE`: CSV id,lat,lon[,priority] or GeoJSON points")
 	f.StringVar(&df.rulesFile, "rules", "", "rule `FILE` (YAML or JSON)")
-	f.StringVar(&df.deviceFile, "device", "", "device `FILE` (JSON object, SPEC §2); default: a phone, 390×844 px")
+	f.StringVar(&df.deviceFile, "device", "", "device `FILE` (JSON object, SPEC §2); default: a phone, 390×844 px, fov_y 45°, user at the centre, no insets")
 	f.StringVar(&df.userArg, "user", "", "start where `LAT,LON` snaps to the route")
 	f.Float64Var(&df.startAlongM, "start-along-m", 0, "start this many metres along the route")
 	f.Float64Var(&df.horizonS, "horizon-s", 120, "how long to drive, seconds")

@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"strconv"
 	"strings"
@@ -13,6 +14,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/viewspec/viewspec/rules"
+	"github.com/viewspec/viewspec/wire"
 )
 
 func newZoomCmd() *cobra.Command {
@@ -21,10 +23,17 @@ func newZoomCmd() *cobra.Command {
 	cmd := &cobra.Command{
 		Use:   "zoom",
 		Short: "Print the zoom and pitch a rule set gives over a trace of speeds",
-		Long: `zoom evaluates a rule set (SPEC §3) over samples read from a CSV file with the
-columns t_s,speed_mps[,turn_dist_m] (a header line is optional; an empty
-turn_dist_m means no turn ahead), and prints the band, zoom and pitch at each
-sample.`,
+		Long: `zoom evaluates a rule set (SPEC §3) over samples read from a CSV file with
+the columns t_s,speed_mps[,turn_dist_m] (a header line is optional; an
+empty turn_dist_m means no turn ahead, # starts a comment).
+
+For each sample it prints the time, the speed, the distance to the turn
+ahead, the speed band the rules are in (its index in the file's bands, from
+0, after hysteresis), and the map's zoom and pitch: as a table (speed in
+km/h, "—" for no turn ahead), or with --csv as t_s, speed_mps, turn_dist_m,
+zoom, pitch_deg, band (speed in m/s, empty for no turn ahead). --json
+prints the wire answer instead (SPEC §6): the zoom and pitch_deg arrays,
+one entry a sample, without the band.`,
 		Example: `  viewspec zoom --rules fixtures/rules/phone.yaml --speeds trace.csv`,
 		Args:    cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
@@ -41,39 +50,59 @@ sample.`,
 				return &exitError{2, fmt.Errorf("%s: %v", speedsFile, err)}
 			}
 			out := cmd.OutOrStdout()
-			switch {
-			case asJSON:
-				return writeJSON(out, struct {
-					Zoom     []float64 `json:"zoom"`
-					PitchDeg []float64 `json:"pitch_deg"`
-				}{zoom, pitch})
-			case asCSV:
+			if asJSON {
+				return writeJSON(out, wire.ZoomAnswer{Zoom: zoom, PitchDeg: pitch})
+			}
+			bands := sampleBands(rs, samples)
+			if asCSV {
 				w := csv.NewWriter(out)
-				w.Write([]string{"t_s", "speed_mps", "turn_dist_m", "zoom", "pitch_deg"})
+				w.Write([]string{"t_s", "speed_mps", "turn_dist_m", "zoom", "pitch_deg", "band"})
 				for i, s := range samples {
-					w.Write([]string{fnum(s.TS), fnum(s.SpeedMps), optNum(s.TurnDistM), fnum(zoom[i]), fnum(pitch[i])})
+					w.Write([]string{fnum(s.TS), fnum(s.SpeedMps), optNum(s.TurnDistM), fnum(zoom[i]), fnum(pitch[i]), strconv.Itoa(bands[i])})
 				}
 				w.Flush()
 				return w.Error()
 			}
 			tw := tabwriter.NewWriter(out, 0, 0, 2, ' ', tabwriter.AlignRight)
-			fmt.Fprintln(tw, "t s\tspeed km/h\tturn ahead m\tzoom\tpitch°\t")
+			fmt.Fprintln(tw, "t s\tspeed km/h\tturn ahead m\tband\tzoom\tpitch°\t")
 			for i, s := range samples {
 				turn := "—"
 				if s.TurnDistM != nil {
 					turn = strconv.FormatFloat(*s.TurnDistM, 'f', 0, 64)
 				}
-				fmt.Fprintf(tw, "%g\t%.1f\t%s\t%.3f\t%.2f\t\n", s.TS, s.SpeedMps*3.6, turn, zoom[i], pitch[i])
+				fmt.Fprintf(tw, "%g\t%.1f\t%s\t%d\t%.3f\t%.2f\t\n", s.TS, s.SpeedMps*3.6, turn, bands[i], zoom[i], pitch[i])
 			}
 			return tw.Flush()
 		},
 	}
 	cmd.Flags().StringVar(&rulesFile, "rules", "", "rule `FILE` (YAML or JSON)")
 	cmd.Flags().StringVar(&speedsFile, "speeds", "", "samples `CSV`: t_s,speed_mps[,turn_dist_m]")
-	cmd.Flags().BoolVar(&asJSON, "json", false, "print the wire answer's zoom and pitch_deg arrays")
-	cmd.Flags().BoolVar(&asCSV, "csv", false, "print CSV with a header line")
+	cmd.Flags().BoolVar(&asJSON, "json", false, "print the wire answer (SPEC §6): the zoom and pitch_deg arrays")
+	cmd.Flags().BoolVar(&asCSV, "csv", false, "print CSV with a header line: t_s,speed_mps,turn_dist_m,zoom,pitch_deg,band")
 	cmd.MarkFlagsMutuallyExclusive("json", "csv")
 	return cmd
+}
+
+// sampleBands returns the band the rules are in at each sample, stepping
+// the same State that Evaluate steps; samples must have passed Evaluate.
+func sampleBands(rs *rules.Set, samples []rules.Sample) []int {
+	bands := make([]int, len(samples))
+	var st rules.State
+	for i, s := range samples {
+		turn, hasTurn := 0.0, s.TurnDistM != nil
+		if hasTurn {
+			turn = *s.TurnDistM
+		}
+		if i == 0 {
+			st, _ = rs.Start(s.SpeedMps, turn, hasTurn)
+		} else {
+			// A gap too wide for a float64 is as good as any long one: the
+			// band does not depend on it.
+			st.Step(min(s.TS-samples[i-1].TS, math.MaxFloat64), s.SpeedMps, turn, hasTurn)
+		}
+		bands[i] = st.Band()
+	}
+	return bands
 }
 
 func fnum(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
