@@ -49,7 +49,7 @@ func Ops() []string {
 func Evaluate(req *wire.Request) (any, error) {
 	f, ok := ops[req.Op]
 	if !ok {
-		if req.Op == "" {
+		if !req.OpGiven() {
 			return nil, spec.Absent("op")
 		}
 		return nil, &wire.UnknownOpError{Op: req.Op, Known: Ops()}

@@ -323,6 +323,12 @@ func (req *Request) Drive() (timeline.Drive, error) {
 	if err != nil {
 		return d, err
 	}
+	// The device's values now, before the rules (SPEC §6: each input
+	// wholly before the next); a camera looking straight down puts no
+	// pitch-dependent limit on the anchor.
+	if err := (viewport.Camera{Device: dev}).Validate(); err != nil {
+		return d, err
+	}
 	rs, err := req.Rules.Value("rules")
 	if err != nil {
 		return d, err

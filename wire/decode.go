@@ -1,6 +1,7 @@
 package wire
 
 import (
+	"encoding/json"
 	"errors"
 	"strconv"
 	"strings"
@@ -30,8 +31,22 @@ var opFields = map[string][]string{
 var requestOpts = jsonv2.JoinOptions(jsonv2.DefaultOptionsV2(), jsontext.AllowDuplicateNames(true))
 
 // DecodeRequest reads one request line. A field the request's op does not
-// read is ignored even when its type is wrong.
+// read is ignored even when its type is wrong, and an op that is not one
+// of the wire's reads no field at all (SPEC §6). When the line is valid
+// JSON but a field has the wrong type, the error is returned and req still
+// holds the line's id, so that the error answer echoes it.
 func DecodeRequest(line []byte, req *Request) error {
+	err := decodeRequest(line, req)
+	if err != nil && len(req.ID) == 0 {
+		req.ID = peekID(line)
+	}
+	if err == nil && req.Op == "" {
+		req.opEmpty = hasEmptyOp(line)
+	}
+	return err
+}
+
+func decodeRequest(line []byte, req *Request) error {
 	for range 16 {
 		*req = Request{}
 		err := jsonv2.Unmarshal(line, req, requestOpts)
@@ -48,14 +63,38 @@ func DecodeRequest(line []byte, req *Request) error {
 		if op == "" {
 			op = peekOp(line)
 		}
-		used, known := opFields[op]
-		if !known || containsStr(used, top) {
+		if used, known := opFields[op]; known && containsStr(used, top) {
 			return err
 		}
-		// The bad field is one this op ignores: hide it and decode again.
+		// The bad field is one this op does not read: hide it and decode
+		// again.
 		line = hideKey(line, top)
 	}
 	return jsonv2.Unmarshal(line, req, requestOpts)
+}
+
+// OpGiven reports whether the request named an op, even the empty string
+// (which is an op no implementation speaks, not a missing one).
+func (req *Request) OpGiven() bool { return req.Op != "" || req.opEmpty }
+
+// peekID returns the id of a line, when it is a JSON object with one.
+func peekID(line []byte) json.RawMessage {
+	var head struct {
+		ID jsontext.Value `json:"id"`
+	}
+	if jsonv2.Unmarshal(line, &head, requestOpts) != nil || len(head.ID) == 0 {
+		return nil
+	}
+	return json.RawMessage(head.ID)
+}
+
+// hasEmptyOp reports whether the line's op is the empty string, not absent
+// or null.
+func hasEmptyOp(line []byte) bool {
+	var head struct {
+		Op *string `json:"op"`
+	}
+	return jsonv2.Unmarshal(line, &head, requestOpts) == nil && head.Op != nil
 }
 
 // topField returns the first token of a JSON pointer: the top-level field.

@@ -76,3 +76,25 @@ func TestNullBucketEdgeIsMissing(t *testing.T) {
 		t.Errorf("got %s, want …%s…", got, want)
 	}
 }
+
+// The error answers SPEC §6 settles, each of which read two ways before:
+// an unknown op reads no field; the empty op is an unknown one, not a
+// missing one; the id is echoed on a bad type whatever its place; a
+// device's values are checked before the rules' presence.
+func TestErrorAnswersFollowTheText(t *testing.T) {
+	dev := `{"width_px":0,"height_px":844,"fov_y_deg":45}`
+	for _, c := range []struct{ line, want string }{
+		{`{"op":"nope","id":3,"camera":5}`, `{"id":3,"error":{"code":"unknown_op","message":"line 1: op: unknown op \"nope\" (known: footprint, hello, horizon, metrics, project, timeline, unproject, zoom)"}}`},
+		{`{"op":"","id":4}`, `{"id":4,"error":{"code":"unknown_op","message":"line 1: op: unknown op \"\" (known: footprint, hello, horizon, metrics, project, timeline, unproject, zoom)"}}`},
+		{`{"id":5}`, `{"id":5,"error":{"code":"missing_field","message":"line 1: op: missing (required)"}}`},
+		{`{"op":null,"id":6}`, `{"id":6,"error":{"code":"missing_field","message":"line 1: op: missing (required)"}}`},
+		{`{"op":5,"id":7}`, `{"id":7,"error":{"code":"bad_type","message":"line 1: op: expected a string, got a number"}}`},
+		{`{"op":"timeline","markers":[{"id":"a","lat":0,"lon":0,"priority":"high"}],"id":8}`, `{"id":8,"error":{"code":"bad_type","message":"line 1: markers[0].priority: expected a number, got a string"}}`},
+		{`{"op":"timeline","id":9,"route":{"points":[{"lat":0,"lon":0},{"lat":0,"lon":1}],"speed_mps":10},"device":` + dev + `}`,
+			`{"id":9,"error":{"code":"invalid_value","message":"line 1: device.width_px = 0: width must be positive and at most 100000"}}`},
+	} {
+		if got := string(reference.AnswerLine([]byte(c.line), 1)); got != c.want {
+			t.Errorf("%s\n got %s\nwant %s", c.line, got, c.want)
+		}
+	}
+}

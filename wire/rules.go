@@ -54,8 +54,13 @@ func (w *Rules) Value(path string) (*rules.Set, error) {
 		}
 		return *p
 	}
-	if w.Bands == nil {
+	switch {
+	case w.Bands == nil:
 		err = spec.Absent(path + ".bands")
+	case len(w.Bands) == 0:
+		// Present but empty is a value out of its range (≥ 1 band), not a
+		// missing field.
+		err = &spec.FieldError{Field: path + ".bands", Value: "[]", Reason: "a rule set needs at least 1 band"}
 	}
 	s.Bands = make([]rules.Band, len(w.Bands))
 	for i, b := range w.Bands {

@@ -34,6 +34,10 @@ type Request struct {
 	TickS        *float64   `json:"tick_s,omitempty"`
 	Cap          *float64   `json:"cap,omitempty"`
 	BucketEdgesS []*float64 `json:"bucket_edges_s,omitempty"`
+
+	// opEmpty is set by DecodeRequest when the line's op is "" (see
+	// OpGiven).
+	opEmpty bool
 }
 
 // Sample is one sample of the zoom op: a time, a speed and the
