@@ -150,10 +150,16 @@ func AnswerID(b []byte) (string, bool) {
 }
 
 // WriteFileAtomic writes name through a temporary file in the same folder
-// and a rename, so that readers never see a half-written file.
+// and a rename, so that readers never see a half-written file (see package
+// internal/atomicfile for what it refuses).
 func WriteFileAtomic(name string, write func(w io.Writer) error) error {
 	return atomicfile.Write(name, write)
 }
+
+// CheckTarget returns the error WriteFileAtomic would refuse name with
+// before writing (a folder, a device, a read-only file, a missing folder),
+// so that a command can refuse before long work rather than after it.
+func CheckTarget(name string) error { return atomicfile.Check(name) }
 
 // OpsIn returns the ops named in a comma-separated list, checked against
 // the reference's ops.

@@ -52,17 +52,22 @@ same bytes.`,
 			if count < 1 {
 				return &exitError{2, fmt.Errorf("--count = %d: at least 1", count)}
 			}
-			gen := func(w io.Writer) error {
-				n, err := corpus.Generate(w, seed, count, only)
-				if err == nil && out != "" {
-					fmt.Fprintf(cmd.ErrOrStderr(), "%d cases written to %s (seed %d, %s)\n", n, out, seed, corpus.GenVersion)
-				}
+			n := 0
+			gen := func(w io.Writer) (err error) {
+				n, err = corpus.Generate(w, seed, count, only)
 				return err
 			}
 			if out == "" || out == "-" {
 				return gen(cmd.OutOrStdout())
 			}
-			return corpus.WriteFileAtomic(out, gen)
+			if err := corpus.CheckTarget(out); err != nil {
+				return &exitError{2, err}
+			}
+			if err := corpus.WriteFileAtomic(out, gen); err != nil {
+				return &exitError{2, err}
+			}
+			fmt.Fprintf(cmd.ErrOrStderr(), "%d cases written to %s (seed %d, %s)\n", n, out, seed, corpus.GenVersion)
+			return nil
 		},
 	}
 	cmd.Flags().Uint64Var(&seed, "seed", 1, "random seed")
@@ -180,6 +185,11 @@ func (rf *reportFlags) register(cmd *cobra.Command) {
 }
 
 func (rf *reportFlags) load() (check.Profile, error) {
+	if rf.junit != "" {
+		if err := corpus.CheckTarget(rf.junit); err != nil {
+			return check.Profile{}, &exitError{2, fmt.Errorf("--junit: %v", err)}
+		}
+	}
 	p, err := check.LoadProfile(rf.profile, rf.tolerances)
 	if err != nil {
 		return p, &exitError{2, err}
