@@ -22,6 +22,10 @@ import (
 // MaxLineBytes is the longest answer line read: the wire's own limit.
 const MaxLineBytes = wire.MaxLineBytes
 
+// helloTimeout is the least wait for hello, the first answer, which may
+// include the implementation's start-up on a loaded machine.
+const helloTimeout = 15 * time.Second
+
 // DefaultTimeout is the wait for one answer when none is given.
 const DefaultTimeout = 5 * time.Second
 
@@ -109,10 +113,15 @@ type Hello struct {
 // Hello asks the implementation which ops it speaks.
 func (p *Process) Hello() (Hello, error) {
 	var h Hello
+	// The first answer waits for the implementation to start (an
+	// interpreter, a JIT): at least helloTimeout, whatever the timeout.
+	timeout := p.Timeout
+	p.Timeout = max(timeout, helloTimeout)
 	ans, err := p.Answer([]byte(`{"op":"hello","id":"viewspec-hello"}`))
+	p.Timeout = timeout
 	switch {
 	case errors.Is(err, ErrHung):
-		return h, fmt.Errorf("implementation %q did not answer hello within %v", p.Command, p.Timeout)
+		return h, fmt.Errorf("implementation %q did not answer hello within %v", p.Command, max(timeout, helloTimeout))
 	case err != nil:
 		return h, fmt.Errorf("implementation %q exited before answering hello (%s)", p.Command, p.Wait())
 	}

@@ -190,3 +190,30 @@ func isKey(line []byte, i int) bool {
 	}
 	return false
 }
+
+// Unmarshal decodes one JSON document into v as requests are decoded:
+// keys matched exactly, unknown keys ignored. Files that hold wire objects
+// (a camera, a device) are read with it, so that they mean what the same
+// object means on the wire.
+func Unmarshal(data []byte, v any) error { return jsonv2.Unmarshal(data, v, requestOpts) }
+
+// NearKeys returns the keys of the JSON object data that look like field
+// but are not it: the same letters in another case, or the field without
+// its unit suffix ("heading" for "heading_deg"), for a hint in a message.
+func NearKeys(data []byte, field string) []string {
+	var obj map[string]jsontext.Value
+	if jsonv2.Unmarshal(data, &obj, requestOpts) != nil {
+		return nil
+	}
+	stem := field
+	if i := strings.LastIndexByte(field, '_'); i > 0 {
+		stem = field[:i]
+	}
+	var near []string
+	for k := range obj {
+		if k != field && (strings.EqualFold(k, field) || strings.EqualFold(k, stem)) {
+			near = append(near, k)
+		}
+	}
+	return near
+}

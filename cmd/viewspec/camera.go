@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -9,6 +8,8 @@ import (
 	"os"
 	"strings"
 
+	jsonv2 "github.com/go-json-experiment/json"
+	"github.com/go-json-experiment/json/jsontext"
 	"github.com/spf13/cobra"
 
 	"github.com/viewspec/viewspec/spec"
@@ -35,6 +36,7 @@ type cameraFlags struct {
 	cam  viewport.Camera // the flags' values: the defaults until given
 	tile int
 	file string
+	data []byte // the camera object read from file, for hints
 	// atUser makes lat, lon and heading default to the place the command
 	// passes to viewAt (metrics: the user, and the route's heading there)
 	// instead of Port Wren.
@@ -205,7 +207,7 @@ func (cf *cameraFlags) viewAt(cmd *cobra.Command, at *cameraPlace) (viewport.Vie
 	c, err := w.Value("camera")
 	if err != nil {
 		// Only a file can leave a field out or give a bad tile size.
-		return viewport.View{}, &exitError{2, fmt.Errorf("%s: %v", cf.fileName(), withFlagHint(err))}
+		return viewport.View{}, &exitError{2, fmt.Errorf("%s: %v", cf.fileName(), cf.withHint(err))}
 	}
 	v, err := viewport.Prepare(c)
 	if err != nil {
@@ -214,13 +216,27 @@ func (cf *cameraFlags) viewAt(cmd *cobra.Command, at *cameraPlace) (viewport.Vie
 	return v, nil
 }
 
-// withFlagHint adds to a missing field's error the flags that could give it.
-func withFlagHint(err error) error {
+// withHint adds to a missing field's error the flags that could give it,
+// and the keys of the file that look like it ("heading" for heading_deg:
+// fields carry their units).
+func (cf *cameraFlags) withHint(err error) error {
 	var fe *spec.FieldError
 	if !errors.As(err, &fe) || fe.Kind != spec.Missing {
 		return err
 	}
 	path := strings.TrimPrefix(fe.Field, "camera.")
+	if obj, name := cf.data, path; obj != nil {
+		if dev, ok := strings.CutPrefix(path, "device."); ok {
+			var f struct {
+				Device json.RawMessage `json:"device"`
+			}
+			wire.Unmarshal(obj, &f)
+			obj, name = f.Device, dev
+		}
+		if near := wire.NearKeys(obj, name); len(near) > 0 {
+			err = fmt.Errorf("%w (the file has %q: keys are matched exactly and carry their units)", err, near[0])
+		}
+	}
 	if path == "device" {
 		return fmt.Errorf("%w; give it in the file, or give --width, --height and --fov-y", err)
 	}
@@ -255,8 +271,12 @@ func (cf *cameraFlags) readFile(cmd *cobra.Command) (*wire.Camera, error) {
 	// file is decoded, so that an error's line and column are the file's.
 	var fields map[string]json.RawMessage
 	inner := false
-	if json.NewDecoder(bytes.NewReader(data)).Decode(&fields) == nil {
+	if wire.Unmarshal(data, &fields) == nil {
 		_, inner = fields["camera"]
+	}
+	cf.data = data
+	if inner {
+		cf.data = fields["camera"]
 	}
 	var w wire.Camera
 	var dst any = &w
@@ -265,7 +285,7 @@ func (cf *cameraFlags) readFile(cmd *cobra.Command) (*wire.Camera, error) {
 			Camera *wire.Camera `json:"camera"`
 		}{&w}
 	}
-	if err := json.NewDecoder(bytes.NewReader(data)).Decode(dst); err != nil {
+	if err := wire.Unmarshal(data, dst); err != nil {
 		return nil, fmt.Errorf("%s: %v", cf.fileName(), describeJSONError(data, err))
 	}
 	return &w, nil
@@ -273,14 +293,14 @@ func (cf *cameraFlags) readFile(cmd *cobra.Command) (*wire.Camera, error) {
 
 // describeJSONError adds the line and column to a JSON syntax error.
 func describeJSONError(data []byte, err error) string {
-	var se *json.SyntaxError
-	var te *json.UnmarshalTypeError
+	var se *jsontext.SyntacticError
+	var te *jsonv2.SemanticError
 	off := int64(-1)
 	switch {
 	case errors.As(err, &se):
-		off = se.Offset - 1 // the offending byte itself
+		off = se.ByteOffset
 	case errors.As(err, &te):
-		off = te.Offset
+		off = te.ByteOffset
 	}
 	_, msg := wire.DecodeError(err)
 	if off < 0 {

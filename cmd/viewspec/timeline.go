@@ -1,9 +1,7 @@
 package main
 
 import (
-	"bytes"
 	"encoding/csv"
-	"encoding/json"
 	"fmt"
 	"io"
 	"os"
@@ -29,7 +27,7 @@ func readDevice(name string) (viewport.Device, error) {
 		return viewport.Device{}, &exitError{2, err}
 	}
 	var w wire.Device
-	if err := json.NewDecoder(bytes.NewReader(data)).Decode(&w); err != nil {
+	if err := wire.Unmarshal(data, &w); err != nil {
 		return viewport.Device{}, &exitError{2, fmt.Errorf("%s: %s", name, describeJSONError(data, err))}
 	}
 	d, err := w.Value("device")
