@@ -18,7 +18,6 @@ import (
 	"github.com/viewspec/viewspec/live"
 	"github.com/viewspec/viewspec/props"
 	"github.com/viewspec/viewspec/reference"
-	"github.com/viewspec/viewspec/spec"
 )
 
 // Impl is an implementation under test: it answers one wire request line
@@ -90,15 +89,19 @@ func (p *Command) Answer(line []byte) ([]byte, error) {
 	return ans, err
 }
 
-// Ops asks hello.
+// Ops asks hello (which waits for the implementation to start).
 func (p *Command) Ops() ([]string, error) {
-	ans, err := p.Answer([]byte(`{"op":"hello","id":"probe-hello"}`))
-	if err != nil {
-		return nil, err
+	if p.p == nil {
+		lp, err := live.Start(p.Command, p.Timeout)
+		if err != nil {
+			return nil, err
+		}
+		p.p = lp
 	}
-	var h live.Hello
-	if json.Unmarshal(ans, &h) != nil || h.Ops == nil {
-		return nil, fmt.Errorf("hello was answered with %s", spec.Excerpt(ans, 120))
+	h, err := p.p.Hello()
+	if err != nil {
+		p.Close()
+		return nil, err
 	}
 	return h.Ops, nil
 }
