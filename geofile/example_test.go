@@ -15,5 +15,5 @@ func ExampleReadMarkers() {
 	fmt.Println(err)
 	// Output:
 	// 2 bakery [13.4 52.5] 2 <nil>
-	// bad.csv:1: lat,lon: lat = 95: latitude must be finite and within [-90, 90]
+	// bad.csv:1: lat = 95: latitude must be finite and within [-90, 90]
 }
