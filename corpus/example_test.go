@@ -18,5 +18,5 @@ func ExampleGenerate() {
 	st := corpus.StatsOf(cases)
 	fmt.Println(n, same, st.ByOp["horizon"], st.ByFamily["horizon/invalid_camera"] > 0)
 	// Output:
-	// 65 true 65 true
+	// 56 true 56 true
 }

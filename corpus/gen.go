@@ -2,21 +2,24 @@ package corpus
 
 import (
 	"encoding/json"
+	"errors"
 	"fmt"
 	"hash/fnv"
 	"io"
 	"math"
 	"math/rand/v2"
 	"strconv"
+	"strings"
 
 	"github.com/viewspec/viewspec/props"
 	"github.com/viewspec/viewspec/reference"
+	"github.com/viewspec/viewspec/spec"
 	"github.com/viewspec/viewspec/wire"
 )
 
 // GenVersion names the generator; with the seed and count it fixes a
 // corpus byte for byte. It changes whenever generation changes.
-const GenVersion = "gen/2"
+const GenVersion = "gen/3"
 
 // Generate writes a corpus of about count cases (every family of every
 // selected op gets its share, at least one case) drawn from seed to w, and
@@ -69,6 +72,18 @@ func genCase(seed uint64, op string, fam props.Family, k int) (Case, error) {
 	rng := caseRand(seed, op, fam.Name, k)
 	id := op + "/" + fam.Name + "/" + fmt.Sprintf("%04d", k)
 	for try := 0; ; try++ {
+		if fam.Raw != nil {
+			raw, err := fam.Raw(rng)
+			if err == nil {
+				if c, err := NewRawCase(id, fam.Name, op, raw); err == nil {
+					return c, nil
+				}
+			}
+			if try > 1000 {
+				return Case{}, fmt.Errorf("case %s: no wire error drawn in 1000 tries: %v", id, err)
+			}
+			continue
+		}
 		req, err := fam.Draw(rng)
 		if err != nil {
 			if try > 1000 {
@@ -87,6 +102,31 @@ func genCase(seed uint64, op string, fam props.Family, k int) (Case, error) {
 func NewCase(id, fam string, req *wire.Request) (Case, error) {
 	req.ID = json.RawMessage(strconv.Quote(id))
 	return buildCase(id, fam, req)
+}
+
+// NewRawCase makes a corpus case of a request line that breaks the wire's
+// rules (raw JSON object, without an id): the line with id inserted first,
+// and the reference's error answer to it, its message without the line
+// number. It refuses a line the reference answers without an error.
+func NewRawCase(id, fam, op string, raw []byte) (Case, error) {
+	if len(raw) < 2 || raw[0] != '{' {
+		return Case{}, errors.New("a raw request must be a JSON object")
+	}
+	line := wire.AppendString([]byte(`{"id":`), id)
+	if len(raw) > 2 {
+		line = append(line, ',')
+	}
+	line = append(line, raw[1:]...)
+	ans := reference.AnswerLine(line, 1)
+	var a wire.ErrorAnswer
+	if err := json.Unmarshal(ans, &a); err != nil || a.Error.Code == "" {
+		return Case{}, fmt.Errorf("the reference answers %s without an error", spec.Excerpt(line, 200))
+	}
+	a.Error.Message = strings.TrimPrefix(a.Error.Message, "line 1: ")
+	c := Case{ID: id, Family: fam, Op: op, Request: line, Margins: json.RawMessage(`{}`)}
+	var err error
+	c.Expect, err = wire.Marshal(a)
+	return c, err
 }
 
 // buildCase answers req with the reference and splits the margins off.

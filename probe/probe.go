@@ -289,7 +289,7 @@ func probeOp(impl Impl, op string, opt *Options) *Disagreement {
 		}
 		lr := gen.Draw(t, "request")
 		drawn++
-		c, err := corpus.NewCase("probe/"+op+"/"+lr.Family, lr.Family, lr.Request)
+		c, err := caseOf("probe/"+op+"/"+lr.Family, op, lr)
 		if err != nil {
 			t.Skipf("the reference cannot encode the case: %v", err)
 		}
@@ -337,7 +337,7 @@ func scanOp(impl Impl, op string, opt *Options) (*Disagreement, error) {
 		for i := range n {
 			lr := gen.Example(int(opt.Seed)*opt.Checks + start + i)
 			id := fmt.Sprintf("probe/%s/%s/%d", op, lr.Family, start+i)
-			c, err := corpus.NewCase(id, lr.Family, lr.Request)
+			c, err := caseOf(id, op, lr)
 			if err != nil {
 				return drawn{err: err}
 			}
@@ -398,3 +398,12 @@ func scanOp(impl Impl, op string, opt *Options) (*Disagreement, error) {
 // ErrNoFinding is returned by helpers that need a finding when there is
 // none.
 var ErrNoFinding = errors.New("no disagreement found")
+
+// caseOf makes the corpus case of a drawn request: a wire request, or the
+// raw line of a wire_errors family.
+func caseOf(id, op string, lr props.LabelledRequest) (corpus.Case, error) {
+	if lr.Raw != nil {
+		return corpus.NewRawCase(id, lr.Family, op, lr.Raw)
+	}
+	return corpus.NewCase(id, lr.Family, lr.Request)
+}

@@ -23,10 +23,13 @@ type Source interface {
 
 // Family is a named edge-case family of one op: Draw returns a request
 // without its op and id, or an error to draw again (an invalid draw that
-// is not the family's point).
+// is not the family's point). A family of requests that break the wire's
+// own rules (wrong JSON types) has Raw instead: the request line as JSON,
+// with its op but without an id.
 type Family struct {
 	Name string
 	Draw func(rng Source) (*wire.Request, error)
+	Raw  func(rng Source) ([]byte, error)
 }
 
 // Plan is an op's share of a corpus and its families; the first family is
@@ -41,7 +44,7 @@ type Plan struct {
 // generation and the prober both draw from them.
 func Plans() []Plan {
 	cam := cameraFamilies()
-	return []Plan{
+	plans := []Plan{
 		{"project", 0.25, withInvalid(cam, projectRequest)},
 		{"unproject", 0.12, withInvalid(cam, unprojectRequest)},
 		{"footprint", 0.15, withInvalid(cam, footprintRequest)},
@@ -50,6 +53,11 @@ func Plans() []Plan {
 		{"zoom", 0.11, zoomFamilies()},
 		{"timeline", 0.12, timelineFamilies()},
 	}
+	for i := range plans {
+		p := &plans[i]
+		p.Families = append(p.Families, wireErrors(p.Op, p.Families[0]))
+	}
+	return append(plans, Plan{"hello", 0.005, helloFamilies()})
 }
 
 // ---- camera families (project, unproject, footprint) ----

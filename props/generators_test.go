@@ -17,6 +17,12 @@ func TestGeneratorsCoverFamilies(t *testing.T) {
 		for i := range 400 {
 			lr := gen.Example(i)
 			seen[lr.Family]++
+			if lr.Raw != nil {
+				if _, err := corpus.NewRawCase("g", lr.Family, plan.Op, lr.Raw); err != nil {
+					t.Fatalf("%s example %d (%s): %v", plan.Op, i, lr.Raw, err)
+				}
+				continue
+			}
 			if lr.Request.Op != plan.Op {
 				t.Fatalf("%s example %d has op %q", plan.Op, i, lr.Request.Op)
 			}

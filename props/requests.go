@@ -39,10 +39,12 @@ func (s *RapidSource) IntN(n int) int {
 	return rapid.IntRange(0, n-1).Draw(s.T, "i")
 }
 
-// LabelledRequest is a wire request and the family it was drawn from.
+// LabelledRequest is a wire request and the family it was drawn from: a
+// Request, or for a family of wire errors the Raw line (op set, no id).
 type LabelledRequest struct {
 	Family  string
 	Request *wire.Request
+	Raw     []byte
 }
 
 // PlanOf returns the plan of op, and false when op has none (hello).
@@ -66,6 +68,11 @@ func ProbeRequest(op string) *rapid.Generator[LabelledRequest] {
 	return rapid.Custom(func(t *rapid.T) LabelledRequest {
 		f := plan.Families[rapid.IntRange(0, len(plan.Families)-1).Draw(t, op+"_family")]
 		src := &RapidSource{T: t}
+		for f.Raw != nil {
+			if raw, err := f.Raw(src); err == nil {
+				return LabelledRequest{Family: f.Name, Raw: raw}
+			}
+		}
 		for {
 			req, err := f.Draw(src)
 			if err == nil {

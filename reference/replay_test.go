@@ -15,7 +15,7 @@ import (
 
 // marginKeys are the keys the reference adds beside its answers; a corpus
 // case keeps them apart, under margins.
-var marginKeys = map[string]bool{"margin_px": true, "side_margin_m": true, "bucket_margin_s": true, "first_shown_margin_px": true}
+var marginKeys = map[string]bool{"margin_px": true, "side_margin_m": true, "bucket_margin_s": true, "first_shown_margin_px": true, "turn_margin_deg": true}
 
 // stripMargins returns the answer line with the reference's margins removed,
 // compact, keys in their order: what a corpus case keeps as expect.

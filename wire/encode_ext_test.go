@@ -17,6 +17,9 @@ func TestFastRequestEncoderMatches(t *testing.T) {
 	rapid.Check(t, func(t *rapid.T) {
 		op := rapid.SampledFrom([]string{"project", "unproject", "footprint"}).Draw(t, "op")
 		req := props.ProbeRequest(op).Draw(t, "request").Request
+		if req == nil {
+			t.Skip("a wire_errors request is raw JSON, not encoded")
+		}
 		req.ID = json.RawMessage(rapid.SampledFrom([]string{"", `"x"`, `12`}).Draw(t, "id"))
 		got, ok := wire.FastMarshal(req)
 		if !ok {
