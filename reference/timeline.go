@@ -17,6 +17,13 @@ func evalTimeline(req *wire.Request, m *wire.Margins) (any, error) {
 	if err != nil {
 		return nil, err
 	}
+	if req.Trace != nil && *req.Trace {
+		got, ticks, err := timeline.ComputeTraced(&d, ms)
+		if err != nil {
+			return nil, err
+		}
+		return &wire.TimelineAnswer{Head: wire.Head{ID: req.ID}, Markers: wire.TimelineOf(ms, got), Ticks: ticks}, nil
+	}
 	got, err := timeline.Compute(&d, ms)
 	if err != nil {
 		return nil, err

@@ -1,6 +1,7 @@
 package wire_test
 
 import (
+	"encoding/json"
 	"strings"
 	"testing"
 
@@ -96,5 +97,34 @@ func TestErrorAnswersFollowTheText(t *testing.T) {
 		if got := string(reference.AnswerLine([]byte(c.line), 1)); got != c.want {
 			t.Errorf("%s\n got %s\nwant %s", c.line, got, c.want)
 		}
+	}
+}
+
+// "trace": true asks the reference for its state at every tick; the
+// answer's markers are the same as without it.
+func TestTimelineTrace(t *testing.T) {
+	base := `{"op":"timeline","id":1,"route":{"points":[{"lat":0,"lon":0},{"lat":0.01,"lon":0}],"speed_mps":10},` +
+		`"device":{"width_px":390,"height_px":844,"fov_y_deg":45},"rules":` + rulesWorked +
+		`,"markers":[{"id":"a","lat":0.002,"lon":0}],"horizon_s":2,"tick_s":0.5,"bucket_edges_s":[0.5,1]`
+	plain := reference.AnswerLine([]byte(base+`}`), 1)
+	traced := reference.AnswerLine([]byte(base+`,"trace":true}`), 1)
+	var a struct {
+		Markers json.RawMessage `json:"markers"`
+		Ticks   []struct {
+			TS      float64 `json:"t_s"`
+			Visible []struct {
+				ID string `json:"id"`
+			} `json:"visible"`
+			Shown []string `json:"shown"`
+		} `json:"ticks"`
+	}
+	if err := json.Unmarshal(traced, &a); err != nil || len(a.Ticks) != 5 {
+		t.Fatalf("traced answer %s: want 5 ticks", traced)
+	}
+	if !strings.Contains(string(plain), string(a.Markers)) {
+		t.Errorf("markers with the trace %s, without %s", a.Markers, plain)
+	}
+	if tk := a.Ticks[0]; tk.TS != 0 || len(tk.Visible) != 1 || tk.Visible[0].ID != "a" || len(tk.Shown) != 1 {
+		t.Errorf("first tick %+v, want marker a in view and shown", tk)
 	}
 }

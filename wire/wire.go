@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 
 	"github.com/viewspec/viewspec/spec"
+	"github.com/viewspec/viewspec/timeline"
 )
 
 // SpecVersion names the version of the geometry the wire speaks for.
@@ -34,6 +35,9 @@ type Request struct {
 	TickS        *float64   `json:"tick_s,omitempty"`
 	Cap          *float64   `json:"cap,omitempty"`
 	BucketEdgesS []*float64 `json:"bucket_edges_s,omitempty"`
+	// Trace asks the reference for its state at every tick (SPEC §5), for
+	// finding where a timeline parts from it.
+	Trace *bool `json:"trace,omitempty"`
 
 	// opEmpty is set by DecodeRequest when the line's op is "" (see
 	// OpGiven).
@@ -79,6 +83,9 @@ type MarkerTimeline struct {
 type TimelineAnswer struct {
 	Head
 	Markers []MarkerTimeline `json:"markers"`
+	// Ticks is the reference's per-tick trace, when the request asked for
+	// it.
+	Ticks []timeline.Tick `json:"ticks,omitempty"`
 }
 
 // Point is a geographic point, WGS84 degrees. Fields are pointers so that

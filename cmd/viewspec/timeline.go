@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/csv"
+	"encoding/json"
 	"fmt"
 	"io"
 	"os"
@@ -10,6 +11,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/viewspec/viewspec/corpus"
 	"github.com/viewspec/viewspec/timeline"
 	"github.com/viewspec/viewspec/viewport"
 	"github.com/viewspec/viewspec/wire"
@@ -105,6 +107,7 @@ func (df *driveFlags) load(cmd *cobra.Command) (timeline.Drive, []timeline.Marke
 func newTimelineCmd() *cobra.Command {
 	var df driveFlags
 	var asJSON, asCSV bool
+	var traceFile string
 	cmd := &cobra.Command{
 		Use:   "timeline",
 		Short: "Drive a route and print when each marker is first shown, for how long, and its bucket",
@@ -124,8 +127,27 @@ early, mid or late (by --bucket-edges-s) or never (SPEC §5).`,
 			if err != nil {
 				return err
 			}
-			got, err := timeline.Compute(&d, ms)
-			if err != nil {
+			var got []timeline.Result
+			if traceFile != "" {
+				if err := corpus.CheckTarget(traceFile); err != nil {
+					return &exitError{2, fmt.Errorf("--trace: %v", err)}
+				}
+				var ticks []timeline.Tick
+				if got, ticks, err = timeline.ComputeTraced(&d, ms); err != nil {
+					return &exitError{2, err}
+				}
+				if err := corpus.WriteFileAtomic(traceFile, func(w io.Writer) error {
+					enc := json.NewEncoder(w)
+					for i := range ticks {
+						if err := enc.Encode(&ticks[i]); err != nil {
+							return err
+						}
+					}
+					return nil
+				}); err != nil {
+					return &exitError{2, err}
+				}
+			} else if got, err = timeline.Compute(&d, ms); err != nil {
 				return &exitError{2, err}
 			}
 			lines := wire.TimelineOf(ms, got)
@@ -142,6 +164,7 @@ early, mid or late (by --bucket-edges-s) or never (SPEC §5).`,
 	df.register(cmd)
 	cmd.Flags().BoolVar(&asJSON, "json", false, "print the wire answer (SPEC §6) as JSON")
 	cmd.Flags().BoolVar(&asCSV, "csv", false, "print CSV with a header line")
+	cmd.Flags().StringVar(&traceFile, "trace", "", "also write the reference's state at every tick to `FILE`, one JSON object a line: camera, footprint, markers in view with their margins, markers shown")
 	cmd.MarkFlagsMutuallyExclusive("json", "csv")
 	return cmd
 }
