@@ -217,3 +217,53 @@ func TestTimelineAfterKnifeEdgeTurnIsBorderline(t *testing.T) {
 		t.Errorf("no limited turn before the outcome: %v, want fail", st)
 	}
 }
+
+// A point the reference puts 200 px off the screen (margin −200) answered
+// in view fails: only the margin's magnitude may make a disagreement
+// borderline, never its sign.
+func TestCompareNegativeMarginFails(t *testing.T) {
+	strict := check.Profiles["strict"]
+	c := &corpus.Case{ID: "c", Op: "project", Family: "unit",
+		Expect:  json.RawMessage(`{"id":"c","screen":[{"x":-200,"y":200,"depth":500,"in_view":false}]}`),
+		Margins: json.RawMessage(`{"margin_px":[-200]}`)}
+	in := json.RawMessage(`{"id":"c","screen":[{"x":-200,"y":200,"depth":500,"in_view":true}]}`)
+	if st, _ := check.Compare(c, in, &strict); st != check.Fail {
+		t.Errorf("in view 200 px off the screen: %v, want fail", st)
+	}
+	c.Margins = json.RawMessage(`{"margin_px":[-1e-7]}`)
+	if st, _ := check.Compare(c, in, &strict); st != check.Borderline {
+		t.Errorf("in view 1e-7 px outside the edge: %v, want borderline", st)
+	}
+}
+
+// The timeline's first-shown rule: a first showing decided by less than
+// the pixel tolerance (first_shown_margin_px) may come a tick apart, and
+// is borderline; decided by more, it fails.
+func TestTimelineFirstShownMarginRule(t *testing.T) {
+	strict := check.Profiles["strict"]
+	mk := func(px string) *corpus.Case {
+		return &corpus.Case{ID: "t", Op: "timeline", Family: "unit",
+			Expect:  json.RawMessage(`{"id":"t","markers":[{"id":"m0","first_visible_s":20,"first_shown_s":20,"shown_s":0.5,"bucket":"late"}]}`),
+			Margins: json.RawMessage(`{"bucket_margin_s":[5],"first_shown_margin_px":[` + px + `]}`)}
+	}
+	aTickLater := json.RawMessage(`{"id":"t","markers":[{"id":"m0","first_visible_s":20.25,"first_shown_s":20.25,"shown_s":0.25,"bucket":"late"}]}`)
+	if st, _ := check.Compare(mk("5e-7"), aTickLater, &strict); st != check.Borderline {
+		t.Errorf("a tick later, first shown with a margin of 5e-7 px: %v, want borderline", st)
+	}
+	if st, _ := check.Compare(mk("40"), aTickLater, &strict); st != check.Fail {
+		t.Errorf("a tick later, first shown with a margin of 40 px: %v, want fail", st)
+	}
+}
+
+// The strict profile is what SPEC §7 derives; loosening any value shows
+// here (the table in SPEC §7, with its derivations).
+func TestStrictProfileIsSpecs(t *testing.T) {
+	want := check.Profile{Name: "strict",
+		PixelPx: check.Tolerance{Abs: 1e-6, Rel: 1e-9}, DepthPx: check.Tolerance{Abs: 1e-6, Rel: 1e-9},
+		GroundM: check.Tolerance{Abs: 1e-6}, DistM: check.Tolerance{Abs: 1e-4, Rel: 1e-9},
+		AreaM2: check.Tolerance{Abs: 1e-6, Rel: 1e-9}, TimeS: check.Tolerance{Abs: 1e-6, Rel: 1e-9},
+		Zoom: check.Tolerance{Abs: 1e-9}, PitchDeg: check.Tolerance{Abs: 1e-9}}
+	if got := check.Profiles["strict"]; got != want {
+		t.Fatalf("strict profile %+v, want %+v", got, want)
+	}
+}
