@@ -238,6 +238,7 @@ type differ struct {
 	diffs      []Diff
 	marginsRaw json.RawMessage
 	margins    *wire.Margins
+	request    json.RawMessage
 
 	scratchA, scratchB []byte // raw number text, for sameNumbers
 }
@@ -334,7 +335,7 @@ func pair(a, b float64) string { return "(" + fmtF(a) + ", " + fmtF(b) + ")" }
 // expectation under profile p and returns the case's status and the
 // differences behind it.
 func Compare(c *corpus.Case, got json.RawMessage, p *Profile) (Status, []Diff) {
-	k := &differ{p: p, marginsRaw: c.Margins}
+	k := &differ{p: p, marginsRaw: c.Margins, request: c.Request}
 	pp := parsers.Get().(*parserPair)
 	defer parsers.Put(pp)
 	w, err := pp.want.ParseBytes(c.Expect)
@@ -571,9 +572,63 @@ func (k *differ) unproject(w, g *fastjson.Value) {
 			}
 			k.discrete(path, "pixel_px", k.p.PixelPx, wantS, gotS, marginAt(k.m().HorizonPx, i))
 		default:
-			k.latLon(path, wv, gv)
+			k.unprojected(path, i, wv, gv)
 		}
 	}
+}
+
+// PixelResolutionPx is the pixel perturbation whose ground span widens
+// ground_m for an unprojected point (SPEC §7): 1e-9 px, about 10⁴ ulp of
+// a 1,000 px coordinate carried through the ray's few products.
+const PixelResolutionPx = 1e-9
+
+// unprojected compares an unprojected point. Its ground_m tolerance grows
+// with the point's conditioning: D/h × PixelResolutionPx, D the expected
+// point's ground distance from the camera's centre, h its pixel's distance
+// below the horizon row (the reference's horizon_px margin). Near the
+// horizon, D/h (m/px) is the ground span of a pixel (SPEC §7).
+func (k *differ) unprojected(path string, i int, w, g *fastjson.Value) {
+	if k.sameNumbers(w, g, "lat", "lon") {
+		return
+	}
+	wl, ok1 := k.number(path, w, "lat")
+	wo, ok2 := k.number(path, w, "lon")
+	gl, ok3 := k.number(path, g, "lat")
+	go_, ok4 := k.number(path, g, "lon")
+	if !(ok1 && ok2 && ok3 && ok4) {
+		return
+	}
+	d := groundDistM(wl, wo, gl, go_)
+	tol := k.p.GroundM
+	if d > tol.Allowed(0) {
+		tol.Abs += k.conditioningM(i, wl, wo)
+	}
+	k.dist(path, "ground_m", tol, 0, d, func() (string, string) { return pair(wl, wo), pair(gl, go_) })
+}
+
+// conditioningM is the ground span of PixelResolutionPx at pixel i of an
+// unproject request whose expected point is (lat, lon); 0 when the
+// request or the margin is not at hand.
+func (k *differ) conditioningM(i int, lat, lon float64) float64 {
+	h := marginAt(k.m().HorizonPx, i)
+	if h == nil || *h <= 0 {
+		return 0
+	}
+	var p fastjson.Parser
+	r, err := p.ParseBytes(k.request)
+	if err != nil {
+		return 0
+	}
+	cam := r.Get("camera")
+	if cam == nil {
+		return 0
+	}
+	cl, ok1 := cam.Get("lat").Float64()
+	co, ok2 := cam.Get("lon").Float64()
+	if ok1 != nil || ok2 != nil {
+		return 0
+	}
+	return groundDistM(cl, co, lat, lon) / *h * PixelResolutionPx
 }
 
 func (k *differ) footprint(w, g *fastjson.Value) {

@@ -10,7 +10,9 @@ import (
 
 	"github.com/viewspec/viewspec/check"
 	"github.com/viewspec/viewspec/corpus"
+	"github.com/viewspec/viewspec/reference"
 	"github.com/viewspec/viewspec/spec"
+	"github.com/viewspec/viewspec/wire"
 )
 
 func projectCase(margin float64) *corpus.Case {
@@ -265,5 +267,72 @@ func TestStrictProfileIsSpecs(t *testing.T) {
 		Zoom: check.Tolerance{Abs: 1e-9}, PitchDeg: check.Tolerance{Abs: 1e-9}}
 	if got := check.Profiles["strict"]; got != want {
 		t.Fatalf("strict profile %+v, want %+v", got, want)
+	}
+}
+
+// unprojectCase is the reference's case for one pixel of a camera pitched
+// 80° (the far-cut shape), y pixels below its horizon row.
+func unprojectCase(t *testing.T, belowPx float64) *corpus.Case {
+	t.Helper()
+	const cam = `{"lat":44.2,"lon":-81.0,"heading_deg":254.7,"pitch_deg":85,"zoom":18.7,` +
+		`"device":{"width_px":752,"height_px":397,"fov_y_deg":38,"far_ratio":1000}}`
+	var hr wire.Request
+	if err := wire.DecodeRequest([]byte(`{"op":"horizon","id":1,"camera":`+cam+`}`), &hr); err != nil {
+		t.Fatal(err)
+	}
+	a, _, err := reference.Answer(&hr)
+	if err != nil || a.(*wire.HorizonAnswer).HorizonRowPx == nil {
+		t.Fatalf("horizon: %v %+v", err, a)
+	}
+	row := *a.(*wire.HorizonAnswer).HorizonRowPx
+	var req wire.Request
+	line := `{"op":"unproject","id":1,"camera":` + cam + `,"pixels":[{"x":300,"y":` + spec.FormatNumber(row+belowPx) + `}]}`
+	if err := wire.DecodeRequest([]byte(line), &req); err != nil {
+		t.Fatal(err)
+	}
+	c, err := corpus.NewCase("u", "unit", &req)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return &c
+}
+
+// An unprojected point just below the horizon is ill-conditioned: its
+// ground distance D grows as 1/h, h the pixel's distance below the horizon
+// row, so a pixel perturbation δ moves it by about D·δ/h. SPEC §7 widens
+// ground_m by D/h × 1e-9 px. An implementation whose ray is off by 1e-10
+// px (rounding, not a mistake) passes strict; one off by 1e-6 px fails.
+func TestUnprojectToleranceFollowsConditioning(t *testing.T) {
+	strict := check.Profiles["strict"]
+	const belowPx = 0.02
+	c := unprojectCase(t, belowPx)
+	for _, tc := range []struct {
+		offPx float64
+		want  check.Status
+	}{{1e-10, check.Pass}, {1e-6, check.Fail}} {
+		moved := unprojectCase(t, belowPx+tc.offPx)
+		var g struct {
+			Points []*wire.LatLon `json:"points"`
+		}
+		if err := json.Unmarshal(moved.Expect, &g); err != nil || g.Points[0] == nil {
+			t.Fatalf("moved answer %s: %v", moved.Expect, err)
+		}
+		got := json.RawMessage(`{"id":"u","points":[{"lat":` + spec.FormatNumber(g.Points[0].Lat) + `,"lon":` + spec.FormatNumber(g.Points[0].Lon) + `}]}`)
+		st, diffs := check.Compare(c, got, &strict)
+		if st != tc.want {
+			t.Errorf("pixel off by %g px at %g px below the horizon: %v %+v, want %v", tc.offPx, belowPx, st, diffs, tc.want)
+		}
+		if tc.offPx == 1e-10 {
+			// Without the conditioning term this difference fails strict's 1 µm.
+			var w struct {
+				Points []*wire.LatLon `json:"points"`
+			}
+			json.Unmarshal(c.Expect, &w)
+			// 1° of latitude ≈ 111 km: a coarse distance, enough to see
+			// that the move is beyond 1 µm.
+			if d := math.Hypot(w.Points[0].Lat-g.Points[0].Lat, w.Points[0].Lon-g.Points[0].Lon) * 111e3; d < 1e-5 {
+				t.Errorf("the perturbed point moved only %g m: the test does not exercise the conditioning", d)
+			}
+		}
 	}
 }
