@@ -293,6 +293,20 @@ func (c *differ) discrete(path, q string, tol Tolerance, want, got string, margi
 	c.diffs = append(c.diffs, d)
 }
 
+// choiceBorderline marks a marker's along_m, eta_s and side differences
+// borderline when the reference's choice of its closest point was within
+// dist_m's tolerance of another choice (SPEC §4, §7): a closest point that
+// jumps across a tie moves all three at once.
+func (c *differ) choiceBorderline(ds []Diff, margin *float64) {
+	if margin == nil || math.Abs(*margin) > c.p.DistM.Allowed(0) {
+		return
+	}
+	for i := range ds {
+		ds[i].Borderline, ds[i].Ratio = true, 0
+		ds[i].Note = strings.TrimPrefix(ds[i].Note+"; ", "; ") + "closest-point choice margin " + fmtF(*margin) + " m"
+	}
+}
+
 func (c *differ) shape(path, msg string) {
 	c.diffs = append(c.diffs, Diff{Path: path, Quantity: "shape", Want: "", Got: msg, Ratio: math.Inf(1)})
 }
@@ -701,10 +715,14 @@ func (k *differ) metrics(want, got json.RawMessage) error {
 		}
 		k.num(path+".user_dist_m", "dist_m", k.p.DistM, wm.UserDistM, gm.UserDistM)
 		k.num(path+".route_dist_m", "dist_m", k.p.DistM, wm.RouteDistM, gm.RouteDistM)
+		chosen := len(k.diffs)
 		k.optNum(path+".along_m", "dist_m", k.p.DistM, wm.AlongM, gm.AlongM, nil)
 		k.optNum(path+".eta_s", "time_s", k.p.TimeS, wm.EtaS, gm.EtaS, nil)
 		if wm.Side != gm.Side {
 			k.discrete(path+".side", "dist_m", k.p.DistM, wm.Side, gm.Side, marginAt(k.m().SideMarginM, i))
+		}
+		if len(k.diffs) > chosen {
+			k.choiceBorderline(k.diffs[chosen:], marginAt(k.m().ChoiceMarginM, i))
 		}
 		if len(wm.ViewDistM) > 0 {
 			k.optNum(path+".view_dist_m", "dist_m", k.p.DistM, rawNum(wm.ViewDistM), rawNum(gm.ViewDistM), nil)

@@ -336,3 +336,42 @@ func TestUnprojectToleranceFollowsConditioning(t *testing.T) {
 		}
 	}
 }
+
+// A marker beside an out-and-back road is as near to both legs: the rule
+// (ties within 1e-6 m go to the smaller along-route position) picks the
+// outward leg, but an implementation whose distances differ from the
+// reference's by far less than dist_m's tolerance can pick the return leg,
+// 2 × 556 m further along (SPEC §4). The reference's choice margin makes
+// that borderline; a marker 1 km from any tie that jumps fails.
+func TestMetricsClosestPointTieIsBorderline(t *testing.T) {
+	strict := check.Profiles["strict"]
+	for _, tc := range []struct {
+		name, route, marker string
+		want                check.Status
+	}{
+		{"retraced road", `[{"lat":0,"lon":0},{"lat":0,"lon":0.01},{"lat":0,"lon":0}]`, `{"id":"m","lat":0.001,"lon":0.005}`, check.Borderline},
+		{"one-way road", `[{"lat":0,"lon":0},{"lat":0,"lon":0.01},{"lat":0,"lon":0.02}]`, `{"id":"m","lat":0.001,"lon":0.005}`, check.Fail},
+	} {
+		line := `{"op":"metrics","id":1,"route":{"points":` + tc.route + `,"speed_mps":[10]},"user":{"lat":0,"lon":0},"markers":[` + tc.marker + `]}`
+		var req wire.Request
+		if err := wire.DecodeRequest([]byte(line), &req); err != nil {
+			t.Fatal(err)
+		}
+		c, err := corpus.NewCase("m", "unit", &req)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var a wire.MetricsAnswer
+		if err := json.Unmarshal(c.Expect, &a); err != nil {
+			t.Fatal(err)
+		}
+		// The other leg's foot: 2 × (0.01° − 0.005°) further along.
+		jump := 2 * 0.005 * math.Pi / 180 * 6378137
+		along, eta := *a.Markers[0].AlongM+jump, *a.Markers[0].EtaS+jump/10
+		a.Markers[0].AlongM, a.Markers[0].EtaS = &along, &eta
+		got, _ := json.Marshal(a)
+		if st, diffs := check.Compare(&c, got, &strict); st != tc.want {
+			t.Errorf("%s: a closest point %g m further along: %v %+v, want %v", tc.name, jump, st, diffs, tc.want)
+		}
+	}
+}

@@ -19,7 +19,7 @@ import (
 
 // GenVersion names the generator; with the seed and count it fixes a
 // corpus byte for byte. It changes whenever generation changes.
-const GenVersion = "gen/3"
+const GenVersion = "gen/4"
 
 // Generate writes a corpus of about count cases (every family of every
 // selected op gets its share, at least one case) drawn from seed to w, and

@@ -2,6 +2,7 @@ package reference
 
 import (
 	"encoding/json"
+	"math"
 	"strconv"
 
 	"github.com/paulmach/orb"
@@ -40,6 +41,9 @@ func evalMetrics(req *wire.Request, m *wire.Margins) (any, error) {
 	}
 	ans := &wire.MetricsAnswer{Head: wire.Head{ID: req.ID}, Markers: make([]wire.MarkerMetrics, len(ms))}
 	FillMetrics(r, user, ms, view, &fp, ans.Markers)
+	if m != nil {
+		m.ChoiceMarginM = choiceMargins(r, user, ms)
+	}
 	return ans, nil
 }
 
@@ -70,4 +74,18 @@ func FillMetrics(r *routes.Route, user orb.Point, ms []timeline.Marker, view *vi
 		}
 		out[i] = o
 	}
+}
+
+// choiceMargins returns each marker's choice margin (SPEC §4): the least of
+// the user's place's and the marker's closest point's, null when infinite.
+func choiceMargins(r *routes.Route, user orb.Point, ms []timeline.Marker) []*float64 {
+	place := r.Snap(user)
+	um := r.SnapChoiceMarginM(user)
+	out := make([]*float64, len(ms))
+	for i, mk := range ms {
+		if c := min(um, r.ChoiceMarginM(place, mk.Point)); !math.IsInf(c, 1) {
+			out[i] = &c
+		}
+	}
+	return out
 }

@@ -337,7 +337,7 @@ func fastMargins(m *Margins) ([]byte, bool) {
 	for _, f := range [...]struct {
 		key string
 		ps  []*float64
-	}{{"side_margin_m", m.SideMarginM}, {"bucket_margin_s", m.BucketMarginS}, {"first_shown_margin_px", m.FirstShownMarginPx},
+	}{{"side_margin_m", m.SideMarginM}, {"choice_margin_m", m.ChoiceMarginM}, {"bucket_margin_s", m.BucketMarginS}, {"first_shown_margin_px", m.FirstShownMarginPx},
 		{"turn_margin_deg", m.TurnMarginDeg}} {
 		if len(f.ps) == 0 {
 			continue
