@@ -34,6 +34,10 @@ type Drive struct {
 	TickS        float64    // seconds, > 0, dividing HorizonS; default 0.25
 	Cap          int        // markers shown at once, ≥ 1; default 4
 	BucketEdgesS [2]float64 // e1 < e2 ≤ HorizonS, seconds; default 5, 35
+	// Stops pause the motion (SPEC §5): sorted by AtS, not overlapping.
+	// A drive replayed from a recorded trace stands still where the trace
+	// repeats a position.
+	Stops []Stop
 
 	// OnTick, when set, is called at every tick with the tick's index, its
 	// view and the indices of the markers shown (valid during the call
@@ -43,6 +47,13 @@ type Drive struct {
 	// band at that tick (an index into Rules.Bands), for reports of how
 	// often the band changes.
 	OnBand func(tick, band int)
+}
+
+// Stop is a pause of a drive: from drive time AtS, for ForS seconds, the
+// user stands still (speed 0) where the motion had brought them, and the
+// motion resumes afterwards from there.
+type Stop struct {
+	AtS, ForS float64
 }
 
 // NewDrive returns a drive on r from startAlongM with the defaults of SPEC
@@ -87,6 +98,16 @@ func (d *Drive) Validate() error {
 	case !(d.StartAlongM >= 0 && d.StartAlongM <= d.Route.LengthM()):
 		return spec.Out("start_along_m", d.StartAlongM,
 			"start must be on the route, within [0, "+spec.FormatNumber(d.Route.LengthM())+"] m")
+	}
+	end := 0.0
+	for i, st := range d.Stops {
+		switch {
+		case !(st.AtS >= end) || math.IsInf(st.AtS, 0):
+			return spec.Out(spec.Index("stops", i)+".at_s", st.AtS, "stops must start at or after 0 and after the stop before ends ("+spec.FormatNumber(end)+" s)")
+		case !(st.ForS > 0) || math.IsInf(st.ForS, 0):
+			return spec.Out(spec.Index("stops", i)+".for_s", st.ForS, "a stop must last a finite, positive time")
+		}
+		end = st.AtS + st.ForS
 	}
 	if err := d.Rules.Validate(); err != nil {
 		return err
@@ -267,13 +288,15 @@ func (r *driveRun) run() ([]Result, error) {
 	var views [2]viewport.View
 	cam := viewport.Camera{Device: d.Device}
 	walk := rt.Walk(d.StartAlongM)
+	var pause pauses
 	for k := 0; k <= n; k++ {
 		t := float64(k) * d.TickS
-		along := walk.AlongAfterS(t)
+		moving, stopped := pause.at(d.Stops, t)
+		along := walk.AlongAfterS(moving)
 		seg := rt.Segment(walk.SegmentAt(along)) // the current segment, found once
 		speed := seg.SpeedMps
-		if along >= lengthM {
-			speed = 0 // stopped at the route's end
+		if along >= lengthM || stopped {
+			speed = 0 // stopped at the route's end, or at a stop
 		}
 		turnDist, hasTurn := walk.NextTurnDistM(r.turns, along)
 		target := seg.HeadingDeg
@@ -405,4 +428,24 @@ func (r *driveRun) finish() {
 		}
 		o.BucketMarginS = min(math.Abs(t-e1), math.Abs(t-e2), d.HorizonS-t)
 	}
+}
+
+// pauses follows a drive's stops through increasing times.
+type pauses struct {
+	next    int     // the first stop not wholly before the last time
+	pausedS float64 // the length of the stops before it
+}
+
+// at returns the time spent moving by drive time t, and whether the user
+// stands at a stop at t (a stop holds from its start up to, not including,
+// its end). Times must not decrease from call to call.
+func (p *pauses) at(stops []Stop, t float64) (movingS float64, stopped bool) {
+	for p.next < len(stops) && t >= stops[p.next].AtS+stops[p.next].ForS {
+		p.pausedS += stops[p.next].ForS
+		p.next++
+	}
+	if p.next < len(stops) && t >= stops[p.next].AtS {
+		return stops[p.next].AtS - p.pausedS, true
+	}
+	return t - p.pausedS, false
 }

@@ -530,3 +530,60 @@ func TestTimelineWorkLimit(t *testing.T) {
 		t.Fatalf("249 markers × 400,001 ticks: %v, want it computed", err)
 	}
 }
+
+// A stop pauses the motion (SPEC §5): during it the user stands where the
+// motion had brought them, and afterwards the drive goes on as if the stop
+// had been cut out of time. Positions are compared exactly (the same
+// arithmetic at the same moving time).
+func TestTimelineStopsPauseTheMotion(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		d, _ := drawDrive(t)
+		var stops []timeline.Stop
+		at := 0.0
+		for range rapid.IntRange(1, 4).Draw(t, "stops") {
+			at += float64(rapid.IntRange(0, 40).Draw(t, "gap_ticks")) * d.TickS
+			st := timeline.Stop{AtS: at, ForS: float64(rapid.IntRange(1, 40).Draw(t, "stop_ticks")) * d.TickS}
+			stops = append(stops, st)
+			at += st.ForS
+		}
+		plain := map[float64]orb.Point{}
+		d.OnTick = func(k int, v *viewport.View, _ []int) {
+			plain[float64(k)*d.TickS] = orb.Point{v.Camera().LonDeg, v.Camera().LatDeg}
+		}
+		if _, err := timeline.Compute(&d, nil); err != nil {
+			t.Fatal(err)
+		}
+		d.Stops = stops
+		d.OnTick = func(k int, v *viewport.View, _ []int) {
+			tS := float64(k) * d.TickS
+			moving := tS
+			for _, st := range stops {
+				moving -= max(0, min(tS, st.AtS+st.ForS)-st.AtS)
+			}
+			// Whole ticks: the moving time is itself a tick's time.
+			want, ok := plain[math.Round(moving/d.TickS)*d.TickS]
+			got := orb.Point{v.Camera().LonDeg, v.Camera().LatDeg}
+			if ok && got != want {
+				t.Fatalf("t = %g s (moving %g s): at %v, want %v", tS, moving, got, want)
+			}
+		}
+		if _, err := timeline.Compute(&d, nil); err != nil {
+			t.Fatal(err)
+		}
+	})
+	r, _ := routes.New([]orb.Point{{0, 0}, {0, 0.05}}, []float64{10})
+	d := timeline.NewDrive(r, 0, viewport.NewDevice(400, 800, 60), oneBand(16, 0))
+	for _, c := range []struct {
+		stops []timeline.Stop
+		want  string
+	}{
+		{[]timeline.Stop{{AtS: -1, ForS: 1}}, "stops[0].at_s = -1"},
+		{[]timeline.Stop{{AtS: 0, ForS: 0}}, "stops[0].for_s = 0"},
+		{[]timeline.Stop{{AtS: 0, ForS: 5}, {AtS: 4, ForS: 1}}, "stops[1].at_s = 4"},
+	} {
+		d.Stops = c.stops
+		if _, err := timeline.Compute(&d, nil); err == nil || !contains(err.Error(), c.want) {
+			t.Errorf("stops %v: %v, want an error containing %q", c.stops, err, c.want)
+		}
+	}
+}

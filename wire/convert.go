@@ -315,9 +315,26 @@ func number(raw jsontext.Value, path string) (float64, error) {
 // markers), with the SPEC §5 defaults for what it leaves out, validated.
 func (req *Request) Drive() (timeline.Drive, error) {
 	var d timeline.Drive
-	r, err := req.Route.Value("route")
-	if err != nil {
-		return d, err
+	var r *routes.Route
+	var stops []timeline.Stop
+	var err error
+	switch {
+	case req.Fixes != nil && req.Route != nil:
+		return d, &spec.FieldError{Field: "fixes", Reason: "give route or fixes, not both"}
+	case req.Fixes != nil && (req.StartAlongM != nil || req.User != nil):
+		return d, &spec.FieldError{Field: "fixes", Reason: "a drive along fixes starts at its first fix: give no start_along_m or user"}
+	case req.Fixes != nil:
+		fx, err := FixesValue(req.Fixes, "fixes")
+		if err != nil {
+			return d, err
+		}
+		if r, stops, err = timeline.Replay(fx, "fixes"); err != nil {
+			return d, err
+		}
+	default:
+		if r, err = req.Route.Value("route"); err != nil {
+			return d, err
+		}
 	}
 	dev, err := req.Device.Value("device")
 	if err != nil {
@@ -347,6 +364,7 @@ func (req *Request) Drive() (timeline.Drive, error) {
 		start = r.Snap(u).AlongM
 	}
 	d = timeline.NewDrive(r, start, dev, rs)
+	d.Stops = stops
 	if req.HorizonS != nil {
 		d.HorizonS = *req.HorizonS
 	}
@@ -399,4 +417,25 @@ func TimelineOf(ms []timeline.Marker, got []timeline.Result) []MarkerTimeline {
 		out[i] = o
 	}
 	return out
+}
+
+// FixesValue returns the recorded fixes of a drive, each checked for
+// presence (t_s, lat, lon); path names the array ("fixes", "trace").
+func FixesValue(ws []*Fix, path string) ([]timeline.Fix, error) {
+	out := make([]timeline.Fix, len(ws))
+	for i, w := range ws {
+		field := spec.Index(path, i)
+		switch {
+		case w == nil:
+			return nil, spec.Absent(field)
+		case w.TS == nil:
+			return nil, spec.Absent(field + ".t_s")
+		case w.Lat == nil:
+			return nil, spec.Absent(field + ".lat")
+		case w.Lon == nil:
+			return nil, spec.Absent(field + ".lon")
+		}
+		out[i] = timeline.Fix{TS: *w.TS, Point: orb.Point{*w.Lon, *w.Lat}}
+	}
+	return out, nil
 }

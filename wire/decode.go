@@ -22,7 +22,7 @@ var opFields = map[string][]string{
 	"metrics":   {"route", "user", "markers", "camera"},
 	"zoom":      {"rules", "samples"},
 	"timeline": {"route", "start_along_m", "user", "device", "rules", "markers",
-		"horizon_s", "tick_s", "cap", "bucket_edges_s", "trace"},
+		"horizon_s", "tick_s", "cap", "bucket_edges_s", "trace", "fixes"},
 }
 
 // requestOpts decode requests as SPEC §6 reads them: keys matched exactly

@@ -38,10 +38,21 @@ type Request struct {
 	// Trace asks the reference for its state at every tick (SPEC §5), for
 	// finding where a timeline parts from it.
 	Trace *bool `json:"trace,omitempty"`
+	// Fixes, instead of a route, drive the timeline through recorded
+	// positions (SPEC §5).
+	Fixes []*Fix `json:"fixes,omitempty"`
 
 	// opEmpty is set by DecodeRequest when the line's op is "" (see
 	// OpGiven).
 	opEmpty bool
+}
+
+// Fix is one recorded position: seconds after the drive's start, and
+// where.
+type Fix struct {
+	TS  *float64 `json:"t_s"`
+	Lat *float64 `json:"lat"`
+	Lon *float64 `json:"lon"`
 }
 
 // Sample is one sample of the zoom op: a time, a speed and the
