@@ -42,11 +42,11 @@ const (
 
 // seriesStyle is a line's colour and dash pattern; they cycle.
 var seriesStyles = []struct{ color, dash string }{
-	{colFootprint, ""},
-	{colLate, "7 4"},
-	{colEarly, "2 3"},
-	{"#7a4fb3", "9 3 2 3"},
-	{colMid, "4 2"},
+	{colReference, ""},
+	{colOther, "7 4"},
+	{colMid, "2 3"},
+	{colSlate, "9 3 2 3"},
+	{colFootprint, "4 2"},
 }
 
 // chartOpts are the page's additions to a chart.
@@ -249,7 +249,7 @@ func lineChart(title string, series []Series, o chartOpts) ([]byte, error) {
 }
 
 // groupColors colour bar groups in first-seen order; they cycle.
-var groupColors = []string{colFootprint, colLate, colEarly, "#7a4fb3", colMid, colNever}
+var groupColors = []string{colReference, colOther, colMid, colSlate, colFootprint, colNever}
 
 // BarsSVG returns a bar chart (an SVG picture, UTF-8 XML) of bars in the
 // order given, valueLabel naming the value axis (for example "markers"),

@@ -83,7 +83,7 @@ func (w *writer) footprint(a *mapArea, fp *viewport.Footprint) {
 		pts, class = points(footprintPoints(a.frame, fp)), "footprint"
 	}
 	w.empty("polygon", "id", "footprint", "class", class, "points", pts,
-		"fill", colFootprint, "fill-opacity", "0.18", "stroke", colFootprint, "stroke-width", "2", "stroke-linejoin", "round")
+		"fill", colFootprint, "fill-opacity", "0.22", "stroke", colReference, "stroke-width", "2", "stroke-linejoin", "round")
 }
 
 // markers writes each marker inside the map area as a group with its
@@ -109,7 +109,7 @@ func (w *writer) markers(a *mapArea, ms []timeline.Marker, styleOf func(i int) m
 		if shown != nil {
 			w.empty("circle", "class", "halo", "r", "11", "fill", "none", "stroke", colUser, "stroke-width", "2.5")
 		}
-		w.symbol(s.shape, s.fill, s.stroke)
+		w.symbolStyled(s)
 		// Labels run right of the symbol, or left of it near the right edge.
 		lx, anchor := "9", "start"
 		if x > 0.8*a.w {
@@ -186,8 +186,8 @@ func markerItem(s markStyle) legendItem {
 
 var (
 	footprintItem = legendItem{"legend-footprint", "footprint (ground in view)", func(w *writer) {
-		w.empty("polygon", "points", "-7,6 7,6 10,-6 -10,-6", "fill", colFootprint, "fill-opacity", "0.18",
-			"stroke", colFootprint, "stroke-width", "2")
+		w.empty("polygon", "points", "-7,6 7,6 10,-6 -10,-6", "fill", colFootprint, "fill-opacity", "0.3",
+			"stroke", colReference, "stroke-width", "2")
 	}}
 	routeItem = legendItem{"legend-route", "route", func(w *writer) {
 		w.empty("line", "x1", "-10", "y1", "0", "x2", "10", "y2", "0", "stroke", colRoute, "stroke-width", "4", "stroke-opacity", "0.7")
