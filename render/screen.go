@@ -755,6 +755,7 @@ func ScreenSVG(v *viewport.View, sc Scene, opts ...Option) ([]byte, error) {
 	w.screenBody(&l, &sc, ms, &labeller{})
 	w.legend(sw+16, 30, "Legend", items)
 	w.caption(sw+16, legendH+30, lines)
+	w.text("desc", strings.Join(behind, "\n"), "id", "behind-camera")
 	w.close("svg")
 	return w.b.Bytes(), nil
 }
