@@ -807,8 +807,8 @@ func screenCaption(v *viewport.View, ms []screenMarker, behind []string, farOff,
 	d := cam.Device
 	lines := []string{
 		"user " + latLonText(cam.User()),
-		fmt.Sprintf("heading %g°, pitch %g°, zoom %g", cam.HeadingDeg, cam.PitchDeg, cam.Zoom),
-		fmt.Sprintf("screen %g × %g px, fov_y %g°, far ratio %g", d.WidthPx, d.HeightPx, d.FovYDeg, d.FarRatio),
+		fmt.Sprintf("heading %.6g°, pitch %.6g°, zoom %.6g", cam.HeadingDeg, cam.PitchDeg, cam.Zoom),
+		fmt.Sprintf("screen %.6g × %.6g px, fov_y %.6g°, far ratio %.6g", d.WidthPx, d.HeightPx, d.FovYDeg, d.FarRatio),
 	}
 	if h, ok := v.HorizonRowPx(); ok {
 		lines = append(lines, fmt.Sprintf("horizon row %.1f px, far-limit row %.1f px", h, v.FarRowPx()))

@@ -100,7 +100,9 @@ var bucketStyles = []markStyle{styleEarly, styleMid, styleLate, styleNever}
 var resultStyles = []markStyle{styleEarly, styleMid, styleLate, styleCrowded, styleUnseen}
 
 // symbol writes a marker symbol about the origin.
-func (w *writer) symbol(s shape, fill, stroke string) { w.symbolStyled(markStyle{shape: s, fill: fill, stroke: stroke}) }
+func (w *writer) symbol(s shape, fill, stroke string) {
+	w.symbolStyled(markStyle{shape: s, fill: fill, stroke: stroke})
+}
 
 // symbolStyled writes st's symbol about the origin.
 func (w *writer) symbolStyled(st markStyle) {

@@ -47,6 +47,14 @@ func writeOutput(cmd *cobra.Command, name string, data []byte) error {
 	})
 }
 
+// writeFileAtomic writes data to the file name atomically.
+func writeFileAtomic(name string, data []byte) error {
+	return corpus.WriteFileAtomic(name, func(w io.Writer) error {
+		_, err := w.Write(data)
+		return err
+	})
+}
+
 // readRoutePoints reads a route file's vertices ([lon, lat] degrees) for a
 // picture; speeds are not needed.
 func readRoutePoints(name string) ([]orb.Point, error) {
