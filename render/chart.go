@@ -54,6 +54,15 @@ type chartOpts struct {
 	id         string // the svg element's id; prefixes inner ids
 	standalone bool   // write the XML declaration and namespace
 	cursor     bool   // add a vertical line #<id>-cursor the page moves
+	// edges are horizontal lines across the plot (the rule set's band
+	// edges), each with a shaded band of ± its hysteresis around it.
+	edges []chartEdge
+}
+
+// chartEdge is a horizontal line at Y with a band [Y − Half, Y + Half].
+type chartEdge struct {
+	Y, Half float64
+	Label   string
 }
 
 // LinesSVG returns a line chart (an SVG picture, UTF-8 XML) of series on
@@ -200,6 +209,9 @@ func lineChart(title string, series []Series, o chartOpts) ([]byte, error) {
 			}
 		}
 	}
+	for _, e := range o.edges {
+		ylo, yhi = min(ylo, e.Y-e.Half), max(yhi, e.Y+e.Half)
+	}
 	// A little room above and below, so that no line runs along the frame.
 	pad := 0.05 * (yhi - ylo)
 	a := newAxes(title, xlo, xhi, ylo-pad, yhi+pad, xLabel, yLabel, true)
@@ -211,6 +223,19 @@ func lineChart(title string, series []Series, o chartOpts) ([]byte, error) {
 	w.empty("rect", "x", num(a.left), "y", num(a.top-2), "width", num(a.right-a.left), "height", num(a.bottom-a.top+4))
 	w.close("clipPath")
 	w.close("defs")
+	if len(o.edges) > 0 {
+		w.open("g", "class", "edges", "clip-path", "url(#"+clip+")")
+		for _, e := range o.edges {
+			y0, y1 := a.py(e.Y+e.Half), a.py(e.Y-e.Half)
+			w.empty("rect", "class", "hysteresis", "x", num(a.left), "y", num(y0), "width", num(a.right-a.left), "height", num(y1-y0),
+				"fill", colMid, "fill-opacity", "0.16")
+			w.empty("line", "class", "edge", "x1", num(a.left), "y1", num(a.py(e.Y)), "x2", num(a.right), "y2", num(a.py(e.Y)),
+				"stroke", colMid, "stroke-width", "1.2", "stroke-dasharray", "6 3")
+			w.text("text", e.Label, "x", num(a.right-4), "y", num(a.py(e.Y)-4), "text-anchor", "end", "font-size", "10",
+				"font-family", "sans-serif", "fill", colInk, "stroke", colPaper, "stroke-width", "3", "paint-order", "stroke")
+		}
+		w.close("g")
+	}
 	w.open("g", "class", "series-lines", "clip-path", "url(#"+clip+")")
 	w.raw("\n")
 	names := make([]string, len(series))
@@ -236,7 +261,15 @@ func lineChart(title string, series []Series, o chartOpts) ([]byte, error) {
 			"data-units-per-x", strconv.FormatFloat((a.right-a.left)/(a.x1-a.x0), 'g', -1, 64),
 			"stroke", colInk, "stroke-width", "1", "stroke-dasharray", "3 3")
 	}
+	if len(o.edges) > 0 {
+		names = append(names, "band edge ± hysteresis")
+	}
 	w.chartLegend(o, &a, names, func(i int) {
+		if i == len(series) {
+			w.empty("rect", "x", "0", "y", "-5", "width", "22", "height", "10", "fill", colMid, "fill-opacity", "0.3")
+			w.empty("line", "x1", "0", "y1", "0", "x2", "22", "y2", "0", "stroke", colMid, "stroke-dasharray", "6 3")
+			return
+		}
 		st := seriesStyles[i%len(seriesStyles)]
 		kv := []string{"x1", "0", "y1", "0", "x2", "22", "y2", "0", "stroke", st.color, "stroke-width", "2"}
 		if st.dash != "" {

@@ -51,6 +51,7 @@ const (
 // at (ox + x·k, oy + y·k).
 type screenLayout struct {
 	v      *viewport.View
+	prefix string  // put before every element id, so that a page can hold a screen beside a map
 	w, h   float64 // the screen, pixels
 	k      float64 // picture units per pixel
 	ox, oy float64 // picture position of pixel (0, 0)
@@ -61,6 +62,9 @@ func newScreenLayout(v *viewport.View) screenLayout {
 	k := min(1, screenMaxUnits/d.WidthPx, screenMaxUnits/d.HeightPx)
 	return screenLayout{v: v, w: d.WidthPx, h: d.HeightPx, k: k, ox: screenGutter, oy: screenGutter}
 }
+
+// id returns the element id name in this picture.
+func (l *screenLayout) id(name string) string { return l.prefix + name }
 
 // at returns the picture position of pixel (x, y).
 func (l *screenLayout) at(x, y float64) (float64, float64) { return l.ox + x*l.k, l.oy + y*l.k }
@@ -384,10 +388,10 @@ func (w *writer) screenBase(l *screenLayout) {
 	v := l.v
 	x0, y0 := l.at(0, 0)
 	sw, sh := l.w*l.k, l.h*l.k
-	w.empty("rect", "id", "device", "x", num(x0-10), "y", num(y0-10), "width", num(sw+20), "height", num(sh+20),
+	w.empty("rect", "id", l.id("device"), "x", num(x0-10), "y", num(y0-10), "width", num(sw+20), "height", num(sh+20),
 		"rx", "16", "fill", "#2a2d31")
-	w.empty("rect", "id", "screen", "x", num(x0), "y", num(y0), "width", num(sw), "height", num(sh), "fill", "#f7f6f2")
-	w.open("g", "id", "screen-ground", "clip-path", "url(#screen-clip)")
+	w.empty("rect", "id", l.id("screen"), "x", num(x0), "y", num(y0), "width", num(sw), "height", num(sh), "fill", "#f7f6f2")
+	w.open("g", "id", l.id("screen-ground"), "clip-path", "url(#screen-clip)")
 	w.raw("\n")
 	far := v.FarRowPx()
 	horizon, hasHorizon := v.HorizonRowPx()
@@ -399,12 +403,12 @@ func (w *writer) screenBase(l *screenLayout) {
 		if far > top {
 			_, ya := l.at(0, min(top, l.h))
 			_, yb := l.at(0, min(far, l.h))
-			w.empty("rect", "id", "beyond-far", "x", num(x0), "y", num(ya), "width", num(sw), "height", num(yb-ya), "fill", "url(#hatch-beyond)")
+			w.empty("rect", "id", l.id("beyond-far"), "x", num(x0), "y", num(ya), "width", num(sw), "height", num(yb-ya), "fill", "url(#hatch-beyond)")
 		}
 	}
 	if hasHorizon && horizon > 0 {
 		_, yb := l.at(0, min(horizon, l.h))
-		w.empty("rect", "id", "sky", "x", num(x0), "y", num(y0), "width", num(sw), "height", num(yb-y0), "fill", colBeyond)
+		w.empty("rect", "id", l.id("sky"), "x", num(x0), "y", num(y0), "width", num(sw), "height", num(yb-y0), "fill", colBeyond)
 	}
 }
 
@@ -419,7 +423,7 @@ func (w *writer) screenRows(l *screenLayout) {
 			return
 		}
 		_, y := l.at(0, rowPx)
-		w.open("g", "id", id, "data-row-px", strconv.FormatFloat(rowPx, 'g', -1, 64))
+		w.open("g", "id", l.id(id), "data-row-px", strconv.FormatFloat(rowPx, 'g', -1, 64))
 		kv := []string{"x1", num(x0), "y1", num(y), "x2", num(x1), "y2", num(y), "stroke", colInk, "stroke-width", "1.2"}
 		if dash != "" {
 			kv = append(kv, "stroke-dasharray", dash)
@@ -439,7 +443,7 @@ func (w *writer) screenRows(l *screenLayout) {
 func (w *writer) screenFrameUI(l *screenLayout) {
 	v := l.v
 	left, top, right, bottom := v.ClearArea()
-	w.open("g", "id", "insets")
+	w.open("g", "id", l.id("insets"))
 	for _, r := range [][4]float64{{0, 0, l.w, top}, {0, bottom, l.w, l.h}, {0, top, left, bottom}, {right, top, l.w, bottom}} {
 		if r[2] > r[0] && r[3] > r[1] {
 			x, y := l.at(r[0], r[1])
@@ -449,11 +453,11 @@ func (w *writer) screenFrameUI(l *screenLayout) {
 	}
 	w.close("g")
 	x, y := l.at(left, top)
-	w.empty("rect", "id", "clear-area", "x", num(x), "y", num(y), "width", num((right-left)*l.k), "height", num((bottom-top)*l.k),
+	w.empty("rect", "id", l.id("clear-area"), "x", num(x), "y", num(y), "width", num((right-left)*l.k), "height", num((bottom-top)*l.k),
 		"fill", "none", "stroke", colInk, "stroke-width", "1.5", "stroke-dasharray", "1 3", "stroke-linecap", "round")
 	d := v.Camera().Device
 	ax, ay := l.at(d.AnchorX*l.w, d.AnchorY*l.h)
-	w.open("g", "id", "anchor", "transform", "translate("+num(ax)+" "+num(ay)+")")
+	w.open("g", "id", l.id("anchor"), "transform", "translate("+num(ax)+" "+num(ay)+")")
 	w.empty("circle", "r", "15", "fill", "none", "stroke", colInk, "stroke-width", "1")
 	w.empty("path", "d", "M-20,0 L-15,0 M15,0 L20,0 M0,-20 L0,-15 M0,15 L0,20", "stroke", colInk, "stroke-width", "1")
 	w.close("g")
@@ -472,7 +476,7 @@ func (w *writer) screenFootprint(l *screenLayout) {
 		}
 		pts, class = points(xy), "footprint"
 	}
-	w.empty("polygon", "id", "footprint", "class", class, "points", pts, "fill", colFootprint, "fill-opacity", "0.16",
+	w.empty("polygon", "id", l.id("footprint"), "class", class, "points", pts, "fill", colFootprint, "fill-opacity", "0.16",
 		"stroke", colReference, "stroke-width", "1.5", "stroke-linejoin", "round")
 }
 
@@ -481,7 +485,7 @@ func (w *writer) screenFootprint(l *screenLayout) {
 // points β anticlockwise from up.
 func (w *writer) screenNorth(l *screenLayout) {
 	x, y := l.northAt()
-	w.open("g", "id", "north-arrow", "transform", "translate("+num(x)+" "+num(y)+") rotate("+num(-l.v.Camera().HeadingDeg)+")")
+	w.open("g", "id", l.id("north-arrow"), "transform", "translate("+num(x)+" "+num(y)+") rotate("+num(-l.v.Camera().HeadingDeg)+")")
 	w.empty("circle", "r", "16", "fill", colPaper, "fill-opacity", "0.9", "stroke", colGrid)
 	w.empty("path", "d", "M0,-13 L6,6 L0,2 L-6,6 Z", "fill", colInk)
 	w.text("text", "N", "x", "0", "y", "14", "font-size", "8", "font-family", "sans-serif", "text-anchor", "middle", "font-weight", "bold", "fill", colInk)
@@ -509,25 +513,30 @@ func ScreenScalePxPerM(v *viewport.View) float64 {
 	return math.Hypot(b.X-a.X, b.Y-a.Y) / d / viewport.GroundScale(v.Camera().LatDeg)
 }
 
-// screenScale writes #scale-bar on the user's row, right-aligned in the
-// clear area: a round ground length no longer than 30 % of the clear area's
-// width at ScreenScalePxPerM.
-func (w *writer) screenScale(l *screenLayout) box {
+// scaleGeom returns the scale bar on the user's row: its ends in pixels,
+// the row, and a round ground length no longer than 30 % of the clear
+// area's width at ScreenScalePxPerM; lengthM is 0 when none fits.
+func (l *screenLayout) scaleGeom() (px0, px1, row, lengthM float64) {
 	left, _, right, _ := l.v.ClearArea()
 	user := l.v.ProjectMercator(l.v.UserMercator())
 	perM := ScreenScalePxPerM(l.v)
-	lengthM := RoundLengthM(0.3 * (right - left) / perM)
+	lengthM = RoundLengthM(0.3 * (right - left) / perM)
+	px1 = right - 12
+	return px1 - lengthM*perM, px1, user.Y, lengthM
+}
+
+// screenScale writes #scale-bar on the user's row, right-aligned in the
+// clear area (see scaleGeom), and returns the box it covers.
+func (w *writer) screenScale(l *screenLayout) box {
+	px0, px1, row, lengthM := l.scaleGeom()
 	if lengthM == 0 {
 		return box{}
 	}
-	px1 := right - 12
-	px0 := px1 - lengthM*perM
-	x0, y := l.at(px0, user.Y)
-	x1, _ := l.at(px1, user.Y)
-	w.open("g", "id", "scale-bar", "data-length-m", strconv.FormatFloat(lengthM, 'g', -1, 64),
-		"data-px-per-m", strconv.FormatFloat(perM, 'g', -1, 64))
+	x0, y := l.at(px0, row)
+	x1, _ := l.at(px1, row)
+	w.open("g", "id", l.id("scale-bar"), "data-length-m", strconv.FormatFloat(lengthM, 'g', -1, 64))
 	w.empty("rect", "x", num(x0-6), "y", num(y-19), "width", num(x1-x0+12), "height", "27", "fill", colPaper, "fill-opacity", "0.85")
-	w.empty("line", "id", "scale-bar-line", "x1", num(x0), "y1", num(y), "x2", num(x1), "y2", num(y), "stroke", colInk, "stroke-width", "2")
+	w.empty("line", "id", l.id("scale-bar-line"), "x1", num(x0), "y1", num(y), "x2", num(x1), "y2", num(y), "stroke", colInk, "stroke-width", "2")
 	for _, x := range [2]float64{x0, x1} {
 		w.empty("line", "x1", num(x), "y1", num(y-5), "x2", num(x), "y2", num(y+3), "stroke", colInk, "stroke-width", "2")
 	}
@@ -545,7 +554,7 @@ func (w *writer) screenScale(l *screenLayout) box {
 func (w *writer) screenUser(l *screenLayout) {
 	sp := l.v.ProjectMercator(l.v.UserMercator())
 	x, y := l.at(sp.X, sp.Y)
-	w.open("g", "id", "user", "transform", "translate("+num(x)+" "+num(y)+")")
+	w.open("g", "id", l.id("user"), "transform", "translate("+num(x)+" "+num(y)+")")
 	w.empty("path", "d", userPath, "fill", colUser, "stroke", colPaper, "stroke-width", "2", "stroke-linejoin", "round")
 	w.close("g")
 }
@@ -597,7 +606,7 @@ var (
 // drawn position with data-x, data-y (the reference's pixel), data-state,
 // a hover title with its name, and a label where one fits.
 func (w *writer) drawScreenMarkers(l *screenLayout, ms []screenMarker, names map[string]string, lb *labeller) {
-	w.open("g", "id", "markers")
+	w.open("g", "id", l.id("markers"))
 	w.raw("\n")
 	x0, y0 := l.at(0, 0)
 	within := box{x0 - screenGutter + 2, y0 - screenGutter + 2, x0 + l.w*l.k + screenGutter - 2, y0 + l.h*l.k + screenGutter - 2}
@@ -772,7 +781,7 @@ func (w *writer) screenBody(l *screenLayout, sc *Scene, ms []screenMarker, lb *l
 	w.screenBase(l)
 	near, far := l.depthLimits()
 	w.screenFootprint(l)
-	w.open("g", "id", "streets")
+	w.open("g", "id", l.id("streets"))
 	for _, st := range sc.Streets {
 		if d := l.pathOf(l.screenLines(st.Points, near, far)); d != "" {
 			w.open("path", "class", "street", "data-name", st.Name, "d", d, "fill", "none", "stroke", colStreet,
@@ -783,7 +792,7 @@ func (w *writer) screenBody(l *screenLayout, sc *Scene, ms []screenMarker, lb *l
 	}
 	w.close("g")
 	if len(sc.Route) >= 2 {
-		w.empty("path", "id", "route", "d", l.pathOf(l.screenLines(sc.Route, near, far)), "fill", "none", "stroke", colRoute,
+		w.empty("path", "id", l.id("route"), "d", l.pathOf(l.screenLines(sc.Route, near, far)), "fill", "none", "stroke", colRoute,
 			"stroke-width", "5", "stroke-linejoin", "round", "stroke-linecap", "round", "stroke-opacity", "0.75")
 	}
 	w.screenRows(l)

@@ -119,15 +119,19 @@ picture fits the footprint unless --span-m fixes the scale.`,
 
 func newRenderDriveCmd() *cobra.Command {
 	var df driveFlags
-	var rules2File, outFile, title string
+	var rules2File, outFile, title, streetsFile string
 	var spanM float64
 	cmd := &cobra.Command{
 		Use:   "drive",
 		Short: "Draw a drive as a self-contained HTML page with a time slider",
 		Long: `drive runs the drive timeline (as viewspec timeline does) and writes an HTML
-page that needs no network: a map of the route and the markers coloured by
-bucket, a slider that moves the user and the footprint tick by tick and
-highlights the markers shown, zoom and pitch over time, and a table of each
+page that needs no network: a map of the route, the streets (--streets) and
+the markers coloured by bucket (named when the markers file is GeoJSON with
+properties.name), and beside it the phone's screen; one slider (and a play
+button) moves the user, the footprint and the screen tick by tick and
+highlights the markers shown; zoom, the speed with the rules' band edges and
+hysteresis, and pitch over time; each marker's intervals in view and shown,
+with the ticks where more are in view than the cap; and a table of each
 marker's first visible and first shown times, shown seconds and bucket.
 --rules2 adds a second rule set on the same route and markers: its zoom and
 pitch are plotted beside the first's and its buckets listed beside them.`,
@@ -139,7 +143,15 @@ pitch are plotted beside the first's and its buckets listed beside them.`,
 			if err != nil {
 				return err
 			}
-			opts := []render.Option{render.WithRulesName(filepath.Base(df.rulesFile)), render.WithSpanM(spanM)}
+			opts := []render.Option{render.WithRulesName(filepath.Base(df.rulesFile)), render.WithSpanM(spanM),
+				render.WithNames(readMarkerNames(df.markersFile))}
+			if streetsFile != "" {
+				sts, err := readStreets(streetsFile)
+				if err != nil {
+					return err
+				}
+				opts = append(opts, render.WithStreets(sts))
+			}
 			if title != "" {
 				opts = append(opts, render.WithTitle(title))
 			}
@@ -161,6 +173,7 @@ pitch are plotted beside the first's and its buckets listed beside them.`,
 	}
 	df.register(cmd)
 	cmd.Flags().StringVar(&rules2File, "rules2", "", "a second rule `FILE` to compare with the first")
+	cmd.Flags().StringVar(&streetsFile, "streets", "", "streets `FILE` to draw: a GeoJSON FeatureCollection of LineStrings named by properties.name")
 	cmd.Flags().Float64Var(&spanM, "span-m", 0, "ground metres across the map's shorter side, centred on the start (default: fit the drive)")
 	cmd.Flags().StringVar(&title, "title", "", "the page's title (default: made from the drive)")
 	cmd.Flags().StringVarP(&outFile, "output", "o", "", "write the page to `FILE` (default: stdout)")
