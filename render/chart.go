@@ -28,7 +28,22 @@ type Bar struct {
 	Group string
 	// Value is the bar's height in the chart's value unit; finite.
 	Value float64
+	// Tone, when set, colours the bar by the pictures' one code (earlier
+	// as early, later as late) instead of by its group's place.
+	Tone Tone
 }
+
+// Tone is a bar's meaning in the colour code every picture shares.
+type Tone int
+
+const (
+	// ToneGroup colours a bar by its group's place among the groups.
+	ToneGroup Tone = iota
+	// ToneEarlier is a move to an earlier bucket: early's bluish green.
+	ToneEarlier
+	// ToneLater is a move to a later bucket: late's vermillion.
+	ToneLater
+)
 
 // Chart layout, picture units.
 const (
@@ -299,6 +314,7 @@ func barChart(title, valueLabel string, bars []Bar, o chartOpts) ([]byte, error)
 	lo, hi := 0.0, 0.0
 	var groups []string
 	groupOf := map[string]int{}
+	groupCol := map[string]string{}
 	for i, b := range bars {
 		if math.IsNaN(b.Value) || math.IsInf(b.Value, 0) {
 			return nil, fmt.Errorf("render: bars[%d] %q: value %g is not finite", i, b.Label, b.Value)
@@ -307,6 +323,13 @@ func barChart(title, valueLabel string, bars []Bar, o chartOpts) ([]byte, error)
 		if _, ok := groupOf[b.Group]; !ok {
 			groupOf[b.Group] = len(groups)
 			groups = append(groups, b.Group)
+			groupCol[b.Group] = groupColors[groupOf[b.Group]%len(groupColors)]
+			switch b.Tone {
+			case ToneEarlier:
+				groupCol[b.Group] = colEarly
+			case ToneLater:
+				groupCol[b.Group] = colLate
+			}
 		}
 	}
 	a := newAxes(title, 0, 1, lo, hi, "", valueLabel, false)
@@ -337,7 +360,7 @@ func barChart(title, valueLabel string, bars []Bar, o chartOpts) ([]byte, error)
 		w.empty("rect", "class", "bar", "data-label", b.Label, "data-group", b.Group,
 			"data-value", strconv.FormatFloat(b.Value, 'g', -1, 64),
 			"x", num(x+slotW*0.1), "y", num(top), "width", num(slotW*0.8), "height", num(h),
-			"fill", groupColors[groupOf[b.Group]%len(groupColors)])
+			"fill", groupCol[b.Group])
 		w.text("text", strconv.FormatFloat(b.Value, 'g', 6, 64), append([]string{"x", num(x + slotW/2), "y", num(top - 4), "text-anchor", "middle"}, font...)...)
 		x += slotW
 		if i == len(bars)-1 || bars[i+1].Label != b.Label {
@@ -350,7 +373,11 @@ func barChart(title, valueLabel string, bars []Bar, o chartOpts) ([]byte, error)
 		names = []string{valueLabel}
 	}
 	w.chartLegend(o, &a, names, func(i int) {
-		w.empty("rect", "x", "0", "y", "-6", "width", "22", "height", "12", "fill", groupColors[i%len(groupColors)])
+		col := groupColors[i%len(groupColors)]
+		if i < len(groups) {
+			col = groupCol[groups[i]]
+		}
+		w.empty("rect", "x", "0", "y", "-6", "width", "22", "height", "12", "fill", col)
 	})
 	w.close("svg")
 	return w.b.Bytes(), nil
