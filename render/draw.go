@@ -111,7 +111,8 @@ func (w *writer) markers(a *mapArea, ms []timeline.Marker, styleOf func(i int) m
 		in = append(in, at{i, x, y})
 		lb.block(box{x - markR, y - markR, x + markR, y + markR})
 	}
-	lb.block(box{a.w - 46, 16, a.w - 10, 52}) // the north arrow
+	lb.block(box{a.w - 46, 16, a.w - 10, 52})     // the north arrow
+	lb.block(box{0, a.h - 40, 22 + 0.3*a.w, a.h}) // the scale bar
 	spots := make(map[int]labelSpot, len(in))
 	for _, p := range in {
 		if s, ok := lb.place(nameOf(names, ms[p.i].ID), p.x, p.y, box{0, 0, a.w, a.h}); ok {

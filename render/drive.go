@@ -467,6 +467,8 @@ const pageJS = `(function () {
     scaleText: document.getElementById("screen-scale-bar-text")
   };
   var northBase = scr.north.getAttribute("transform").replace(/ rotate\([^)]*\)$/, "");
+  var northAt = /translate\(([-0-9.e]+) ([-0-9.e]+)\)/.exec(northBase);
+  var northBox = [Number(northAt[1]) - 17, Number(northAt[2]) - 17, Number(northAt[1]) + 17, Number(northAt[2]) + 17];
   var out = {
     time: document.getElementById("time-s"),
     count: document.getElementById("shown-count"),
@@ -511,7 +513,7 @@ const pageJS = `(function () {
     }
     while (scr.markers.firstChild) { scr.markers.removeChild(scr.markers.firstChild); }
     var shown = new Set(t.shown);
-    var boxes = [];
+    var boxes = [northBox];
     sc.markers.forEach(function (m) { boxes.push([m[1] - 6, m[2] - 6, m[1] + 6, m[2] + 6]); });
     var order = sc.markers.slice().sort(function (a, b) {
       return (shown.has(data.markers[a[0]].id) ? 0 : 1) - (shown.has(data.markers[b[0]].id) ? 0 : 1);
