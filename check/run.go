@@ -26,6 +26,11 @@ type RunOptions struct {
 	// Progress, when set, is called now and then with the cases answered
 	// and the cases sent.
 	Progress func(done, total int)
+	// OnChecked, when set, is called with every case checked, the
+	// implementation's answer line (valid during the call only) and the
+	// outcome, for reports that need the answer itself (pictures of the
+	// worst failures).
+	OnChecked func(c *corpus.Case, got []byte, res CaseResult)
 }
 
 // RunResult says how the run went, beside the report.
@@ -148,7 +153,10 @@ func (r *runner) collect(send []*corpus.Case) {
 			r.ck.Stray(fmt.Sprintf("a second answer for %q (the first is used)", id))
 			continue
 		}
-		r.ck.Check(send[i], l)
+		cr := r.ck.Check(send[i], l)
+		if r.opt.OnChecked != nil {
+			r.opt.OnChecked(send[i], l, cr)
+		}
 		done[i], left = true, left-1
 		for first < len(send) && done[first] {
 			first++

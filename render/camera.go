@@ -124,7 +124,7 @@ func CameraSVG(v *viewport.View, route []orb.Point, markers []timeline.Marker, b
 	w.openMap(&a)
 	w.route(&a, route)
 	w.footprint(&a, &fp)
-	outside := w.markers(&a, markers, styleOf, nil)
+	outside := w.markers(&a, markers, styleOf, nil, nil)
 	ux, uy := a.frame.Point(v.UserMercator())
 	w.user(ux, uy, cam.HeadingDeg)
 	w.close("g")

@@ -210,8 +210,15 @@ func TestRenderCameraMarkersAndLegend(t *testing.T) {
 		if err := closePoints([][2]float64{translateOf(t, g.get("transform"))}, [][2]float64{p}, unitTol); err != nil {
 			t.Errorf("marker %q: %v", m.ID, err)
 		}
-		if got := strings.TrimSpace(g.text()); got != m.ID {
-			t.Errorf("marker label %q, want %q", got, m.ID)
+		// A label is drawn where it fits; every marker names itself in its
+		// hover title.
+		for _, l := range g.all(func(n *node) bool { return n.hasClass("marker-label") }) {
+			if got := strings.TrimSpace(l.text()); got != m.ID {
+				t.Errorf("marker label %q, want %q", got, m.ID)
+			}
+		}
+		if ti := g.all(func(n *node) bool { return n.XMLName.Local == "title" }); len(ti) != 1 || !strings.HasPrefix(ti[0].Text, m.ID) {
+			t.Errorf("marker %q has no hover title naming it", m.ID)
 		}
 	}
 	legend := root.byID(t, "legend").text()

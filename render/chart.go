@@ -28,7 +28,22 @@ type Bar struct {
 	Group string
 	// Value is the bar's height in the chart's value unit; finite.
 	Value float64
+	// Tone, when set, colours the bar by the pictures' one code (earlier
+	// as early, later as late) instead of by its group's place.
+	Tone Tone
 }
+
+// Tone is a bar's meaning in the colour code every picture shares.
+type Tone int
+
+const (
+	// ToneGroup colours a bar by its group's place among the groups.
+	ToneGroup Tone = iota
+	// ToneEarlier is a move to an earlier bucket: early's bluish green.
+	ToneEarlier
+	// ToneLater is a move to a later bucket: late's vermillion.
+	ToneLater
+)
 
 // Chart layout, picture units.
 const (
@@ -42,11 +57,11 @@ const (
 
 // seriesStyle is a line's colour and dash pattern; they cycle.
 var seriesStyles = []struct{ color, dash string }{
-	{colFootprint, ""},
-	{colLate, "7 4"},
-	{colEarly, "2 3"},
-	{"#7a4fb3", "9 3 2 3"},
-	{colMid, "4 2"},
+	{colReference, ""},
+	{colOther, "7 4"},
+	{colMid, "2 3"},
+	{colSlate, "9 3 2 3"},
+	{colFootprint, "4 2"},
 }
 
 // chartOpts are the page's additions to a chart.
@@ -54,6 +69,15 @@ type chartOpts struct {
 	id         string // the svg element's id; prefixes inner ids
 	standalone bool   // write the XML declaration and namespace
 	cursor     bool   // add a vertical line #<id>-cursor the page moves
+	// edges are horizontal lines across the plot (the rule set's band
+	// edges), each with a shaded band of ± its hysteresis around it.
+	edges []chartEdge
+}
+
+// chartEdge is a horizontal line at Y with a band [Y − Half, Y + Half].
+type chartEdge struct {
+	Y, Half float64
+	Label   string
 }
 
 // LinesSVG returns a line chart (an SVG picture, UTF-8 XML) of series on
@@ -200,6 +224,9 @@ func lineChart(title string, series []Series, o chartOpts) ([]byte, error) {
 			}
 		}
 	}
+	for _, e := range o.edges {
+		ylo, yhi = min(ylo, e.Y-e.Half), max(yhi, e.Y+e.Half)
+	}
 	// A little room above and below, so that no line runs along the frame.
 	pad := 0.05 * (yhi - ylo)
 	a := newAxes(title, xlo, xhi, ylo-pad, yhi+pad, xLabel, yLabel, true)
@@ -211,6 +238,19 @@ func lineChart(title string, series []Series, o chartOpts) ([]byte, error) {
 	w.empty("rect", "x", num(a.left), "y", num(a.top-2), "width", num(a.right-a.left), "height", num(a.bottom-a.top+4))
 	w.close("clipPath")
 	w.close("defs")
+	if len(o.edges) > 0 {
+		w.open("g", "class", "edges", "clip-path", "url(#"+clip+")")
+		for _, e := range o.edges {
+			y0, y1 := a.py(e.Y+e.Half), a.py(e.Y-e.Half)
+			w.empty("rect", "class", "hysteresis", "x", num(a.left), "y", num(y0), "width", num(a.right-a.left), "height", num(y1-y0),
+				"fill", colMid, "fill-opacity", "0.16")
+			w.empty("line", "class", "edge", "x1", num(a.left), "y1", num(a.py(e.Y)), "x2", num(a.right), "y2", num(a.py(e.Y)),
+				"stroke", colMid, "stroke-width", "1.2", "stroke-dasharray", "6 3")
+			w.text("text", e.Label, "x", num(a.right-4), "y", num(a.py(e.Y)-4), "text-anchor", "end", "font-size", "10",
+				"font-family", "sans-serif", "fill", colInk, "stroke", colPaper, "stroke-width", "3", "paint-order", "stroke")
+		}
+		w.close("g")
+	}
 	w.open("g", "class", "series-lines", "clip-path", "url(#"+clip+")")
 	w.raw("\n")
 	names := make([]string, len(series))
@@ -236,7 +276,15 @@ func lineChart(title string, series []Series, o chartOpts) ([]byte, error) {
 			"data-units-per-x", strconv.FormatFloat((a.right-a.left)/(a.x1-a.x0), 'g', -1, 64),
 			"stroke", colInk, "stroke-width", "1", "stroke-dasharray", "3 3")
 	}
+	if len(o.edges) > 0 {
+		names = append(names, "band edge ± hysteresis")
+	}
 	w.chartLegend(o, &a, names, func(i int) {
+		if i == len(series) {
+			w.empty("rect", "x", "0", "y", "-5", "width", "22", "height", "10", "fill", colMid, "fill-opacity", "0.3")
+			w.empty("line", "x1", "0", "y1", "0", "x2", "22", "y2", "0", "stroke", colMid, "stroke-dasharray", "6 3")
+			return
+		}
 		st := seriesStyles[i%len(seriesStyles)]
 		kv := []string{"x1", "0", "y1", "0", "x2", "22", "y2", "0", "stroke", st.color, "stroke-width", "2"}
 		if st.dash != "" {
@@ -249,7 +297,7 @@ func lineChart(title string, series []Series, o chartOpts) ([]byte, error) {
 }
 
 // groupColors colour bar groups in first-seen order; they cycle.
-var groupColors = []string{colFootprint, colLate, colEarly, "#7a4fb3", colMid, colNever}
+var groupColors = []string{colReference, colOther, colMid, colSlate, colFootprint, colNever}
 
 // BarsSVG returns a bar chart (an SVG picture, UTF-8 XML) of bars in the
 // order given, valueLabel naming the value axis (for example "markers"),
@@ -266,6 +314,7 @@ func barChart(title, valueLabel string, bars []Bar, o chartOpts) ([]byte, error)
 	lo, hi := 0.0, 0.0
 	var groups []string
 	groupOf := map[string]int{}
+	groupCol := map[string]string{}
 	for i, b := range bars {
 		if math.IsNaN(b.Value) || math.IsInf(b.Value, 0) {
 			return nil, fmt.Errorf("render: bars[%d] %q: value %g is not finite", i, b.Label, b.Value)
@@ -274,6 +323,13 @@ func barChart(title, valueLabel string, bars []Bar, o chartOpts) ([]byte, error)
 		if _, ok := groupOf[b.Group]; !ok {
 			groupOf[b.Group] = len(groups)
 			groups = append(groups, b.Group)
+			groupCol[b.Group] = groupColors[groupOf[b.Group]%len(groupColors)]
+			switch b.Tone {
+			case ToneEarlier:
+				groupCol[b.Group] = colEarly
+			case ToneLater:
+				groupCol[b.Group] = colLate
+			}
 		}
 	}
 	a := newAxes(title, 0, 1, lo, hi, "", valueLabel, false)
@@ -304,7 +360,7 @@ func barChart(title, valueLabel string, bars []Bar, o chartOpts) ([]byte, error)
 		w.empty("rect", "class", "bar", "data-label", b.Label, "data-group", b.Group,
 			"data-value", strconv.FormatFloat(b.Value, 'g', -1, 64),
 			"x", num(x+slotW*0.1), "y", num(top), "width", num(slotW*0.8), "height", num(h),
-			"fill", groupColors[groupOf[b.Group]%len(groupColors)])
+			"fill", groupCol[b.Group])
 		w.text("text", strconv.FormatFloat(b.Value, 'g', 6, 64), append([]string{"x", num(x + slotW/2), "y", num(top - 4), "text-anchor", "middle"}, font...)...)
 		x += slotW
 		if i == len(bars)-1 || bars[i+1].Label != b.Label {
@@ -317,7 +373,11 @@ func barChart(title, valueLabel string, bars []Bar, o chartOpts) ([]byte, error)
 		names = []string{valueLabel}
 	}
 	w.chartLegend(o, &a, names, func(i int) {
-		w.empty("rect", "x", "0", "y", "-6", "width", "22", "height", "12", "fill", groupColors[i%len(groupColors)])
+		col := groupColors[i%len(groupColors)]
+		if i < len(groups) {
+			col = groupCol[groups[i]]
+		}
+		w.empty("rect", "x", "0", "y", "-6", "width", "22", "height", "12", "fill", col)
 	})
 	w.close("svg")
 	return w.b.Bytes(), nil

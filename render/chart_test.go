@@ -153,3 +153,21 @@ func TestRenderBarsSVG(t *testing.T) {
 		t.Errorf("legend %q", legend)
 	}
 }
+
+// Bars with a tone take the colour code every picture shares: a move to a
+// later bucket is late's vermillion, to an earlier one early's green,
+// whichever group comes first.
+func TestRenderBarsTone(t *testing.T) {
+	svg, err := render.BarsSVG("moves", "markers",
+		render.Bar{Label: "early → late", Group: "later", Value: 3, Tone: render.ToneLater},
+		render.Bar{Label: "late → early", Group: "earlier", Value: 1, Tone: render.ToneEarlier})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := map[string]string{"later": "#d55e00", "earlier": "#009e73"}
+	for _, b := range parseXML(t, svg).all(func(n *node) bool { return n.hasClass("bar") }) {
+		if got := b.get("fill"); got != want[b.get("data-group")] {
+			t.Errorf("bar of group %q filled %s, want %s", b.get("data-group"), got, want[b.get("data-group")])
+		}
+	}
+}

@@ -14,7 +14,7 @@ import (
 const (
 	defaultMapW = 640.0
 	defaultMapH = 640.0
-	panelW      = 250.0
+	panelW      = 330.0
 	mapPad      = 28.0 // room around fitted content inside the map area
 	legendRow   = 22.0
 )
@@ -83,44 +83,85 @@ func (w *writer) footprint(a *mapArea, fp *viewport.Footprint) {
 		pts, class = points(footprintPoints(a.frame, fp)), "footprint"
 	}
 	w.empty("polygon", "id", "footprint", "class", class, "points", pts,
-		"fill", colFootprint, "fill-opacity", "0.18", "stroke", colFootprint, "stroke-width", "2", "stroke-linejoin", "round")
+		"fill", colFootprint, "fill-opacity", "0.22", "stroke", colReference, "stroke-width", "2", "stroke-linejoin", "round")
 }
 
 // markers writes each marker inside the map area as a group with its
-// symbol and id label, styled by styleOf, and returns how many lie outside
-// the map area. With shown not nil (a page), each marker also gets a halo
-// that the page's style shows while the marker is shown, and the markers in
-// shown start with the class "shown".
-func (w *writer) markers(a *mapArea, ms []timeline.Marker, styleOf func(i int) markStyle, shown map[string]bool) (outside int) {
+// symbol, a hover title and a label (its name in names, or its id) where
+// one fits without covering another label or symbol, styled by styleOf,
+// and returns how many lie outside the map area. With shown not nil (a
+// page), each marker also gets a halo that the page's style shows while
+// the marker is shown, and the markers in shown start with the class
+// "shown".
+func (w *writer) markers(a *mapArea, ms []timeline.Marker, styleOf func(i int) markStyle, shown map[string]bool, names map[string]string) (outside int) {
 	w.open("g", "id", "markers")
 	w.raw("\n")
+	type at struct {
+		i    int
+		x, y float64
+	}
+	var in []at
+	var lb labeller
 	for i, m := range ms {
 		x, y := a.frame.Point(viewport.ToMercator(m.Point))
 		if !a.inside(x, y) {
 			outside++
 			continue
 		}
-		s := styleOf(i)
+		in = append(in, at{i, x, y})
+		lb.block(box{x - markR, y - markR, x + markR, y + markR})
+	}
+	lb.block(box{a.w - 46, 16, a.w - 10, 52})     // the north arrow
+	lb.block(box{0, a.h - 40, 22 + 0.3*a.w, a.h}) // the scale bar
+	spots := make(map[int]labelSpot, len(in))
+	for _, p := range in {
+		if s, ok := lb.place(nameOf(names, ms[p.i].ID), p.x, p.y, box{0, 0, a.w, a.h}); ok {
+			spots[p.i] = s
+		}
+	}
+	for _, p := range in {
+		m := ms[p.i]
+		s := styleOf(p.i)
 		class := "marker " + s.class
 		if shown[m.ID] {
 			class += " shown"
 		}
-		w.open("g", "class", class, "data-id", m.ID, "transform", "translate("+num(x)+" "+num(y)+")")
+		w.open("g", "class", class, "data-id", m.ID, "transform", "translate("+num(p.x)+" "+num(p.y)+")")
+		w.text("title", hoverText(names, m.ID, s.label))
 		if shown != nil {
 			w.empty("circle", "class", "halo", "r", "11", "fill", "none", "stroke", colUser, "stroke-width", "2.5")
 		}
-		w.symbol(s.shape, s.fill, s.stroke)
-		// Labels run right of the symbol, or left of it near the right edge.
-		lx, anchor := "9", "start"
-		if x > 0.8*a.w {
-			lx, anchor = "-9", "end"
+		w.symbolStyled(s)
+		if sp, ok := spots[p.i]; ok {
+			w.label(nameOf(names, m.ID), sp)
 		}
-		w.text("text", m.ID, "class", "marker-label", "x", lx, "y", "4", "text-anchor", anchor, "font-size", "11",
-			"font-family", "sans-serif", "fill", colInk, "stroke", colPaper, "stroke-width", "3", "paint-order", "stroke")
 		w.close("g")
 	}
 	w.close("g")
 	return outside
+}
+
+// streets writes the streets as polylines in #streets, each with its name
+// as a hover title.
+func (w *writer) streets(a *mapArea, sts []Street) {
+	if len(sts) == 0 {
+		return
+	}
+	w.open("g", "id", "streets")
+	for _, st := range sts {
+		if len(st.Points) < 2 {
+			continue
+		}
+		xy := make([][2]float64, len(st.Points))
+		for i, p := range st.Points {
+			xy[i][0], xy[i][1] = a.frame.Point(viewport.ToMercator(p))
+		}
+		w.open("polyline", "class", "street", "data-name", st.Name, "points", points(xy), "fill", "none", "stroke", colStreet,
+			"stroke-width", "3", "stroke-linejoin", "round", "stroke-linecap", "round")
+		w.text("title", st.Name)
+		w.close("polyline")
+	}
+	w.close("g")
 }
 
 // userPath is the user's arrow, pointing up (north) before it is turned.
@@ -186,8 +227,8 @@ func markerItem(s markStyle) legendItem {
 
 var (
 	footprintItem = legendItem{"legend-footprint", "footprint (ground in view)", func(w *writer) {
-		w.empty("polygon", "points", "-7,6 7,6 10,-6 -10,-6", "fill", colFootprint, "fill-opacity", "0.18",
-			"stroke", colFootprint, "stroke-width", "2")
+		w.empty("polygon", "points", "-7,6 7,6 10,-6 -10,-6", "fill", colFootprint, "fill-opacity", "0.3",
+			"stroke", colReference, "stroke-width", "2")
 	}}
 	routeItem = legendItem{"legend-route", "route", func(w *writer) {
 		w.empty("line", "x1", "-10", "y1", "0", "x2", "10", "y2", "0", "stroke", colRoute, "stroke-width", "4", "stroke-opacity", "0.7")
@@ -199,7 +240,12 @@ var (
 
 // legend writes #legend at (x0, y0) with a title and one row per item.
 func (w *writer) legend(x0, y0 float64, title string, items []legendItem) {
-	w.open("g", "id", "legend", "transform", "translate("+num(x0)+" "+num(y0)+")")
+	w.legendAs("legend", x0, y0, title, items)
+}
+
+// legendAs writes a legend as legend does, with the element id id.
+func (w *writer) legendAs(id string, x0, y0 float64, title string, items []legendItem) {
+	w.open("g", "id", id, "transform", "translate("+num(x0)+" "+num(y0)+")")
 	w.text("text", title, "x", "0", "y", "0", "font-size", "13", "font-weight", "bold", "font-family", "sans-serif", "fill", colInk)
 	for i, it := range items {
 		y := 22 + float64(i)*legendRow

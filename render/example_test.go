@@ -43,3 +43,26 @@ func ExampleCameraFrame() {
 	// user at (320, 320); 0.64 units per ground metre
 	// 100 Mercator metres north: (320.00, 288.00)
 }
+
+// The screen's scale at the user's row: looking straight down at zoom 16
+// at 60° N, a Mercator metre is 256·2¹⁶/(2π·6378137) = 0.41865 px and a
+// ground metre twice that (sec 60° = 2). Tilted back 60° with the user a
+// quarter of the screen below its centre, the user's row is nearer the
+// camera than the centre's (SPEC §2, hand-computed: f = 400/tan 30° =
+// 692.8 px, v = −266.7 px, depth f + v·sin θ = 461.9 px), so the scale is
+// f/depth = 1.5 times as large.
+func ExampleScreenScalePxPerM() {
+	for _, pitch := range []float64{0, 60} {
+		c := viewport.Camera{LatDeg: 60, LonDeg: 5, PitchDeg: pitch, Zoom: 16, Device: viewport.NewDevice(400, 800, 60)}
+		c.Device.AnchorY = 0.75
+		v, err := viewport.Prepare(c)
+		if err != nil {
+			fmt.Println(err)
+			return
+		}
+		fmt.Printf("pitch %g°: %.4f px per ground metre\n", pitch, render.ScreenScalePxPerM(&v))
+	}
+	// Output:
+	// pitch 0°: 0.8373 px per ground metre
+	// pitch 60°: 1.2559 px per ground metre
+}

@@ -18,6 +18,8 @@ type settings struct {
 	rulesName   string
 	compareName string
 	compare     *timeline.Drive
+	streets     []Street
+	names       map[string]string
 }
 
 func newSettings(opts []Option) (settings, error) {
@@ -67,4 +69,16 @@ func WithRulesName(name string) Option {
 // the map shows the first drive only.
 func WithCompare(name string, other *timeline.Drive) Option {
 	return func(s *settings) { s.compareName, s.compare = name, other }
+}
+
+// WithStreets draws streets on a page's map and screen view, under the
+// route.
+func WithStreets(streets []Street) Option {
+	return func(s *settings) { s.streets = streets }
+}
+
+// WithNames labels a page's markers by id with names (a business's name);
+// markers without one are labelled with their id.
+func WithNames(names map[string]string) Option {
+	return func(s *settings) { s.names = names }
 }

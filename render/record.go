@@ -29,6 +29,14 @@ type TickFrame struct {
 	UserMercator viewport.Mercator
 	// Shown holds the ids of the markers shown, in slot order.
 	Shown []string
+	// Visible holds the ids of the markers in view (SPEC §2), in marker
+	// order: those shown and those crowded out by the cap.
+	Visible []string
+	// SpeedMps is the speed the rules were fed (the current segment's,
+	// 0 at the route's end), m/s; Band the rule set's speed band then (an
+	// index into the rules' bands).
+	SpeedMps float64
+	Band     int
 }
 
 // Recording is a drive recorded tick by tick: what RecordDrive saw through
@@ -72,20 +80,46 @@ func RecordDrive(d *timeline.Drive, markers []timeline.Marker) (Recording, error
 	}
 	rec := Recording{TickS: d.TickS, HorizonS: d.HorizonS, Cap: d.Cap, Markers: markers, Ticks: make([]TickFrame, 0, n)}
 	run := *d
-	outer := d.OnTick
+	outer, outerBand := d.OnTick, d.OnBand
+	merc := make([]viewport.Mercator, len(markers))
+	for i, m := range markers {
+		merc[i] = viewport.ToMercator(m.Point)
+	}
+	// The speed the timeline feeds the rules: the current segment's, 0 at
+	// the route's end (SPEC §5's motion).
+	walk := d.Route.Walk(d.StartAlongM)
+	lengthM := d.Route.LengthM()
 	run.OnTick = func(k int, v *viewport.View, shown []int) {
 		cam := v.Camera()
 		ids := make([]string, len(shown))
 		for j, i := range shown {
 			ids[j] = markers[i].ID
 		}
+		var vis []string
+		for i := range markers {
+			if v.InView(merc[i]) {
+				vis = append(vis, markers[i].ID)
+			}
+		}
+		t := float64(k) * d.TickS
+		along := walk.AlongAfterS(t)
+		speed := d.Route.Segment(walk.SegmentAt(along)).SpeedMps
+		if along >= lengthM {
+			speed = 0
+		}
 		rec.Ticks = append(rec.Ticks, TickFrame{
-			TS: float64(k) * d.TickS, User: cam.User(),
+			TS: t, User: cam.User(),
 			HeadingDeg: cam.HeadingDeg, PitchDeg: cam.PitchDeg, Zoom: cam.Zoom,
-			Footprint: v.Footprint(), UserMercator: v.UserMercator(), Shown: ids,
+			Footprint: v.Footprint(), UserMercator: v.UserMercator(), Shown: ids, Visible: vis, SpeedMps: speed,
 		})
 		if outer != nil {
 			outer(k, v, shown)
+		}
+	}
+	run.OnBand = func(k, band int) {
+		rec.Ticks[k].Band = band
+		if outerBand != nil {
+			outerBand(k, band)
 		}
 	}
 	res, err := timeline.Compute(&run, markers)

@@ -262,7 +262,7 @@ answers, 2 unusable input.`,
 
 func newRunCmd() *cobra.Command {
 	var rf reportFlags
-	var impl, opsList string
+	var impl, opsList, picturesDir string
 	var timeout time.Duration
 	cmd := &cobra.Command{
 		Use:   "run CORPUS --impl 'CMD'",
@@ -271,7 +271,10 @@ func newRunCmd() *cobra.Command {
 on stdin/stdout, asks hello which ops it speaks, sends every case of those ops
 (others are reported as skipped, not failed) and checks each answer as it
 comes. A hang (no answer within --timeout), a crash, garbage on stdout, a
-missing or out-of-order answer each end in a clear note naming the case.`,
+missing or out-of-order answer each end in a clear note naming the case.
+--pictures DIR draws the worst failed project cases (at most 5) as pictures
+of the screen with both answers' pixels and the edge that decides in view,
+one SVG per case named after its id.`,
 		Example: `  viewspec run corpus.jsonl --impl 'python3 fixtures/examples/python/viewspec_py.py'
   viewspec run corpus.jsonl --impl './my-server --wire' --ops project,footprint --junit run.xml`,
 		Args: cobra.ExactArgs(1),
@@ -296,9 +299,18 @@ missing or out-of-order answer each end in a clear note naming the case.`,
 			}
 			ck := check.NewChecker(p)
 			opt := check.RunOptions{Command: impl, Timeout: timeout, Ops: only, Progress: countBar(cmd, "checking")}
+			var worst worstCases
+			if picturesDir != "" {
+				opt.OnChecked = worst.add
+			}
 			res, err := check.Run(cases, opt, ck)
 			if err != nil {
 				return &exitError{2, err}
+			}
+			if picturesDir != "" {
+				if err := worst.write(cmd, picturesDir); err != nil {
+					return &exitError{2, err}
+				}
 			}
 			r := ck.Report()
 			if !rf.asJSON {
@@ -318,6 +330,7 @@ missing or out-of-order answer each end in a clear note naming the case.`,
 	cmd.Flags().StringVar(&impl, "impl", "", "the implementation's command line, run with sh -c")
 	cmd.Flags().StringVar(&opsList, "ops", "", "only these ops, comma-separated")
 	cmd.Flags().DurationVar(&timeout, "timeout", 5*time.Second, "how long to wait for each answer")
+	cmd.Flags().StringVar(&picturesDir, "pictures", "", "write pictures of the worst failed project cases to `DIR` (one SVG per case)")
 	return cmd
 }
 

@@ -327,7 +327,16 @@ func (d *demoRun) drives(town *demo.Scenario) error {
 	if err != nil {
 		return err
 	}
-	page, err := render.DriveHTML(&td, markers, render.WithTitle("Port Wren, the town drive, on a phone"), render.WithRulesName("phone"))
+	streets := make([]render.Street, len(town.Streets))
+	for i, st := range town.Streets {
+		streets[i] = render.Street{Name: st.Name, Points: st.Points}
+	}
+	names := make(map[string]string, len(town.Businesses))
+	for _, b := range town.Businesses {
+		names[b.ID] = b.Name
+	}
+	page, err := render.DriveHTML(&td, markers, render.WithTitle("Port Wren, the town drive, on a phone"), render.WithRulesName("phone"),
+		render.WithStreets(streets), render.WithNames(names))
 	if err != nil {
 		return err
 	}

@@ -97,6 +97,15 @@ same seed draws the same cases.`,
 				return &exitError{2, err}
 			}
 			fmt.Fprintf(w, "\nthe minimal case is in %s; replay it with:\n  viewspec run %s --impl %q\n", out, out, impl)
+			if svg, ok, err := projectOverlay(&f.Case, f.Got, f.Diffs, "the implementation"); err != nil {
+				return &exitError{2, err}
+			} else if ok {
+				pic := filepath.Join(outDir, "probe-finding.svg")
+				if err := writeFileAtomic(pic, svg); err != nil {
+					return &exitError{2, err}
+				}
+				fmt.Fprintf(w, "a picture of the screen with both answers and the edge that decides: %s\n", pic)
+			}
 			return &exitError{1, fmt.Errorf("%s: disagreement found", f.Op)}
 		},
 	}
@@ -105,7 +114,7 @@ same seed draws the same cases.`,
 	cmd.Flags().IntVar(&checks, "checks", 1000, "cases to draw per op")
 	cmd.Flags().Uint64Var(&seed, "seed", 1, "random seed (the same seed draws the same cases)")
 	cmd.Flags().StringVar(&profile, "profile", "strict", "tolerance profile: strict or field")
-	cmd.Flags().StringVarP(&outDir, "out", "o", "viewspec-probe", "`DIR` to write the minimal case to, as probe-finding.jsonl (a one-line corpus)")
+	cmd.Flags().StringVarP(&outDir, "out", "o", "viewspec-probe", "`DIR` to write the minimal case to, as probe-finding.jsonl (a one-line corpus), with a picture of a project disagreement as probe-finding.svg")
 	cmd.Flags().DurationVar(&timeout, "timeout", 5*time.Second, "how long to wait for each answer")
 	cmd.Flags().DurationVar(&shrink, "shrink-time", 30*time.Second, "how long to spend shrinking at most")
 	return cmd

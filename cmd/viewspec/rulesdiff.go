@@ -276,7 +276,11 @@ func writeDiffPlots(markdown string, rep *gate.Comparison, baseName, newName str
 	for i, from := range names {
 		for j, to := range names {
 			if i != j && rep.Total.Moves[i][j] > 0 {
-				bars = append(bars, render.Bar{Label: from + " → " + to, Group: moveGroup(i, j), Value: float64(rep.Total.Moves[i][j])})
+				tone := render.ToneEarlier
+				if j > i {
+					tone = render.ToneLater
+				}
+				bars = append(bars, render.Bar{Label: from + " → " + to, Group: moveGroup(i, j), Value: float64(rep.Total.Moves[i][j]), Tone: tone})
 			}
 		}
 	}
