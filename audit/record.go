@@ -130,6 +130,11 @@ func (w *wireRecord) record(sets RuleSets) (*Record, error) {
 		return nil, err
 	}
 	rec.Fixes = fixes
+	// The fixes checked under the log's names; the drive below builds the
+	// same route again, from fixes known to be good.
+	if _, _, err := timeline.Replay(fixes, "trace"); err != nil {
+		return nil, err
+	}
 	// The drive as a timeline request along the fixes describes it, so
 	// that a record replays as one wire line.
 	req := wire.Request{Op: "timeline", Fixes: w.Trace, Device: w.Device, Rules: w.Rules,

@@ -36,8 +36,9 @@ func bucketIndex(b timeline.Bucket) int {
 const CalibrationBins = 10
 
 // LogLossClip keeps log losses finite: probabilities are clipped to
-// [LogLossClip, 1 − LogLossClip].
-const LogLossClip = 1e-15
+// [LogLossClip, 1 − LogLossClip], LogLossClip = 2⁻⁵², the float64 machine
+// epsilon (common practice in scoring libraries).
+const LogLossClip = 0x1p-52
 
 // Bin is one calibration bin: how many predictions fell in it, their
 // probabilities' sum and how many came true.

@@ -23,3 +23,25 @@ func Need(tb testing.TB, name, debianPackage string) string {
 	tb.Skipf("%s not found: install the Debian package %s (apt-get install -y %s) to run this check", name, debianPackage, debianPackage)
 	return ""
 }
+
+// NeedPythonModule returns the path of a Debian python3 that imports module
+// (Debian installs its python3-* packages for /usr/bin/python3, not for
+// other Pythons on the PATH). It skips, or fails under CI=true, naming the
+// package, as Need does.
+func NeedPythonModule(tb testing.TB, module, debianPackage string) string {
+	tb.Helper()
+	for _, py := range []string{"/usr/bin/python3", "python3"} {
+		path, err := exec.LookPath(py)
+		if err != nil {
+			continue
+		}
+		if exec.Command(path, "-c", "import "+module).Run() == nil {
+			return path
+		}
+	}
+	if os.Getenv("CI") == "true" {
+		tb.Fatalf("python3 with %s not found (CI=true): install the Debian package %s", module, debianPackage)
+	}
+	tb.Skipf("python3 with %s not found: install the Debian package %s (apt-get install -y %s) to run this check", module, debianPackage, debianPackage)
+	return ""
+}
