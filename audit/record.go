@@ -130,14 +130,13 @@ func (w *wireRecord) record(sets RuleSets) (*Record, error) {
 		return nil, err
 	}
 	rec.Fixes = fixes
-	// The fixes checked under the log's names; the drive below builds the
-	// same route again, from fixes known to be good.
-	if _, _, err := timeline.Replay(fixes, "trace"); err != nil {
+	route, stops, err := timeline.Replay(fixes, "trace")
+	if err != nil {
 		return nil, err
 	}
 	// The drive as a timeline request along the fixes describes it, so
 	// that a record replays as one wire line.
-	req := wire.Request{Op: "timeline", Fixes: w.Trace, Device: w.Device, Rules: w.Rules,
+	req := wire.Request{Op: "timeline", Device: w.Device, Rules: w.Rules,
 		HorizonS: w.HorizonS, TickS: w.TickS, Cap: w.Cap, BucketEdgesS: w.BucketEdgesS}
 	switch {
 	case w.Rules != nil && w.RulesRef != nil:
@@ -151,7 +150,7 @@ func (w *wireRecord) record(sets RuleSets) (*Record, error) {
 	case w.Rules == nil:
 		return nil, spec.Absent("rules")
 	}
-	if rec.Drive, err = req.Drive(); err != nil {
+	if rec.Drive, err = req.DriveOn(route, stops); err != nil {
 		return nil, err
 	}
 	if w.Route != nil {

@@ -53,7 +53,11 @@ func MeasureNames() []string {
 // comparison with NaN is never true, and one with ±Inf is always or never
 // true, so such a gate could not fail, or could not pass, whatever the
 // rules did.
-func ParseCondition(s string) (Condition, error) {
+func ParseCondition(s string) (Condition, error) { return ParseConditionAmong(s, MeasureNames()) }
+
+// ParseConditionAmong is ParseCondition for measures of another report:
+// MEASURE must be one of names.
+func ParseConditionAmong(s string, names []string) (Condition, error) {
 	for _, op := range compareOps {
 		i := strings.Index(s, op)
 		if i < 0 {
@@ -61,8 +65,8 @@ func ParseCondition(s string) (Condition, error) {
 		}
 		name := strings.TrimSpace(s[:i])
 		num := strings.TrimSpace(s[i+len(op):])
-		if _, ok := measureFields[name]; !ok {
-			return Condition{}, fmt.Errorf("%q: unknown measure %q (known: %s)", s, name, strings.Join(MeasureNames(), ", "))
+		if !slices.Contains(names, name) {
+			return Condition{}, fmt.Errorf("%q: unknown measure %q (known: %s)", s, name, strings.Join(names, ", "))
 		}
 		v, err := strconv.ParseFloat(num, 64)
 		if err != nil && !math.IsInf(v, 0) {
@@ -98,22 +102,31 @@ func (m *Measures) value(name string) (float64, bool) {
 // a gate never passes because it could not compare.
 func (c Condition) Holds(m *Measures) (bool, float64) {
 	v, ok := m.value(c.Measure)
-	if !ok || math.IsNaN(v) || math.IsNaN(c.Value) {
+	if !ok {
 		return true, v
+	}
+	return c.Compare(v), v
+}
+
+// Compare reports whether the condition holds for the measure's value v;
+// a NaN on either side, or an unknown comparison, holds.
+func (c Condition) Compare(v float64) bool {
+	if math.IsNaN(v) || math.IsNaN(c.Value) {
+		return true
 	}
 	switch c.Op {
 	case ">":
-		return v > c.Value, v
+		return v > c.Value
 	case ">=":
-		return v >= c.Value, v
+		return v >= c.Value
 	case "<":
-		return v < c.Value, v
+		return v < c.Value
 	case "<=":
-		return v <= c.Value, v
+		return v <= c.Value
 	case "==":
-		return v == c.Value, v
+		return v == c.Value
 	case "!=":
-		return v != c.Value, v
+		return v != c.Value
 	}
-	return true, v
+	return true
 }

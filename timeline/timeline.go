@@ -3,6 +3,7 @@ package timeline
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 
 	"github.com/paulmach/orb"
@@ -250,6 +251,9 @@ type driveRun struct {
 	t     float64        // the tick's time, seconds
 	prev  *viewport.View // the view at the tick before, for first-shown margins
 	shown []int          // indices of the shown markers
+	// isIn and waiting are scratch space of the slot assignment.
+	isIn    []bool
+	waiting []int
 
 	// seen keeps which markers are in view from tick to tick.
 	seen seer
@@ -270,7 +274,8 @@ func newDriveRun(d *Drive, ms []Marker, merc []viewport.Mercator) *driveRun {
 	return &driveRun{d: d, ms: ms, merc: merc,
 		turns:   d.Route.Turns(d.Rules.Turn.MinAngleDeg),
 		out:     make([]Result, len(merc)),
-		shown:   make([]int, 0, d.Cap),
+		shown:   make([]int, 0, min(d.Cap, len(ms))),
+		isIn:    make([]bool, len(ms)),
 		seen:    viewport.NewTracker(merc),
 		turnMin: math.Inf(1),
 	}
@@ -356,20 +361,41 @@ func (r *driveRun) tick(k int, t float64, v *viewport.View) {
 	r.shown = kept
 	// Free slots go to visible, not-shown markers by rank (see ahead); the
 	// shown are visible, so there is one while more are visible.
-	for len(r.shown) < r.d.Cap && len(visible) > len(r.shown) {
-		best := -1
-		for _, i32 := range visible {
-			i := int(i32)
-			if r.isShown(i) {
-				continue
-			}
-			if best < 0 || r.ahead(i, best) {
+	free := r.d.Cap - len(r.shown)
+	if free <= 0 || len(visible) <= len(r.shown) {
+		r.countShown()
+		return
+	}
+	for _, i := range r.shown {
+		r.isIn[i] = true
+	}
+	r.waiting = r.waiting[:0]
+	for _, i32 := range visible {
+		if !r.isIn[i32] {
+			r.waiting = append(r.waiting, int(i32))
+		}
+	}
+	for _, i := range r.shown {
+		r.isIn[i] = false
+	}
+	if free == 1 { // the common case: one slot, the best waiting marker
+		best := r.waiting[0]
+		for _, i := range r.waiting[1:] {
+			if r.ahead(i, best) {
 				best = i
 			}
 		}
-		if best < 0 {
-			break
-		}
+		r.waiting = append(r.waiting[:0], best)
+	} else {
+		slices.SortFunc(r.waiting, func(a, b int) int {
+			if r.ahead(a, b) {
+				return -1
+			}
+			return 1 // ids are unique: a ≠ b ranks after
+		})
+		r.waiting = r.waiting[:min(free, len(r.waiting))]
+	}
+	for _, best := range r.waiting {
 		r.shown = append(r.shown, best)
 		o := &r.out[best]
 		if !o.Shown {
@@ -384,6 +410,11 @@ func (r *driveRun) tick(k int, t float64, v *viewport.View) {
 			}
 		}
 	}
+	r.countShown()
+}
+
+// countShown counts a tick for every shown marker.
+func (r *driveRun) countShown() {
 	for _, i := range r.shown {
 		r.out[i].ShownS++ // ticks for now; seconds in finish
 	}
@@ -395,15 +426,6 @@ func (r *driveRun) tick(k int, t float64, v *viewport.View) {
 func (r *driveRun) ahead(i, j int) bool {
 	a, b := &r.ms[i], &r.ms[j]
 	return a.Priority > b.Priority || (a.Priority == b.Priority && a.ID < b.ID)
-}
-
-func (r *driveRun) isShown(i int) bool {
-	for _, j := range r.shown {
-		if j == i {
-			return true
-		}
-	}
-	return false
 }
 
 // finish turns tick counts into seconds and assigns buckets.

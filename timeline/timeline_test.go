@@ -587,3 +587,22 @@ func TestTimelineStopsPauseTheMotion(t *testing.T) {
 		}
 	}
 }
+
+// A cap far above the number of markers (the wire allows up to 2³⁰) costs
+// nothing: the slots are sized by the markers, not by the cap, and every
+// visible marker is shown as it comes into view.
+func TestTimelineHugeCap(t *testing.T) {
+	r, _ := routes.New([]orb.Point{{0, 0}, {0, 0.05}}, []float64{10})
+	d := timeline.NewDrive(r, 0, viewport.NewDevice(400, 800, 60), oneBand(16, 0))
+	d.Cap = 1 << 30
+	ms := []timeline.Marker{{ID: "a", Point: orb.Point{0, 0.001}}, {ID: "b", Point: orb.Point{0.0001, 0.002}}, {ID: "c", Point: orb.Point{0, 0.2}}}
+	got, err := timeline.Compute(&d, ms)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, g := range got {
+		if g.Visible != g.Shown || g.Visible && g.FirstShownS != g.FirstVisibleS {
+			t.Errorf("marker %s: %+v: with room for all, shown exactly when visible", ms[i].ID, g)
+		}
+	}
+}

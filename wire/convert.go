@@ -336,6 +336,15 @@ func (req *Request) Drive() (timeline.Drive, error) {
 			return d, err
 		}
 	}
+	return req.DriveOn(r, stops)
+}
+
+// DriveOn returns the drive a timeline request describes on the route r
+// with the stops given, already built (from the request's route or fixes):
+// the device, rules, start and timeline parameters, with the SPEC §5
+// defaults, validated.
+func (req *Request) DriveOn(r *routes.Route, stops []timeline.Stop) (timeline.Drive, error) {
+	var d timeline.Drive
 	dev, err := req.Device.Value("device")
 	if err != nil {
 		return d, err

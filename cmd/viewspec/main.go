@@ -63,7 +63,7 @@ reference implementation and prints cameras in readable, JSON or GeoJSON form.`,
 	root.SetVersionTemplate("viewspec {{.Version}}, spec " + spec.Version + "\n")
 	root.AddCommand(newEvalCmd(), newFootprintCmd(), newProjectCmd(), newUnprojectCmd(), newMetricsCmd(),
 		newRulesCmd(), newZoomCmd(), newTimelineCmd(),
-		newFixturesCmd(), newCheckCmd(), newRunCmd(), newProbeCmd(), newRenderCmd(), newDemoCmd())
+		newFixturesCmd(), newCheckCmd(), newRunCmd(), newProbeCmd(), newRenderCmd(), newAuditCmd(), newDemoCmd())
 	return root
 }
 
