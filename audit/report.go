@@ -74,29 +74,50 @@ func ReliabilitySVG(ref, phone BucketScoreOut) []byte {
 }
 
 // Worst keeps the records with the most disagreements (ties: the smaller
-// request id), at most K, whatever order the records come in.
+// request id), at most K, whatever order the records come in; with ByTag,
+// the worst record of each value of that tag (at most K values), so that
+// every group that disagrees gets its picture.
 type Worst struct {
-	K    int
-	Keep []*Result
+	K     int
+	ByTag string
+	Keep  []*Result
+}
+
+// worse reports whether a ranks before b.
+func worse(a, b *Result) bool {
+	da, db := disagreements(a), disagreements(b)
+	if da != db {
+		return da > db
+	}
+	return a.Record.RequestID < b.Record.RequestID
 }
 
 // Add offers one record.
 func (w *Worst) Add(r *Result) {
-	n := disagreements(r)
-	if n == 0 {
+	if disagreements(r) == 0 {
 		return
 	}
-	w.Keep = append(w.Keep, r)
-	sort.SliceStable(w.Keep, func(i, j int) bool {
-		a, b := disagreements(w.Keep[i]), disagreements(w.Keep[j])
-		if a != b {
-			return a > b
+	if w.ByTag != "" {
+		v, _ := r.Record.Tag(w.ByTag)
+		for i, k := range w.Keep {
+			if kv, _ := k.Record.Tag(w.ByTag); kv == v {
+				if worse(r, k) {
+					w.Keep[i] = r
+				}
+				w.sort()
+				return
+			}
 		}
-		return w.Keep[i].Record.RequestID < w.Keep[j].Record.RequestID
-	})
+	}
+	w.Keep = append(w.Keep, r)
+	w.sort()
 	if len(w.Keep) > w.K {
 		w.Keep = w.Keep[:w.K]
 	}
+}
+
+func (w *Worst) sort() {
+	sort.SliceStable(w.Keep, func(i, j int) bool { return worse(w.Keep[i], w.Keep[j]) })
 }
 
 func disagreements(r *Result) int {

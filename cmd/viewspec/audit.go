@@ -58,6 +58,10 @@ type auditCmd struct {
 	maxBad, workers int
 	worst           int
 	streetsFile     string
+	namesFile       string
+	conds           []gate.Condition
+	// bar, when set, draws progress (a terminal's bar).
+	bar func(file string, n int64)
 }
 
 func newAuditCmd() *cobra.Command {
@@ -91,7 +95,11 @@ Measures: ` + strings.Join(auditMeasures, ", ") + `.`,
 		Example: `  viewspec audit logs/*.jsonl.gz --rules rules/ --by client --out audit/
   viewspec audit day.jsonl --rules rules/ --json --fail-if 'disagree_pct > 0.5'`,
 		Args: cobra.MinimumNArgs(1),
-		RunE: func(cmd *cobra.Command, args []string) error { return a.run(cmd, args) },
+		RunE: func(cmd *cobra.Command, args []string) error {
+			a.bar = auditBar(cmd, args)
+			_, err := a.run(cmd.OutOrStdout(), cmd.ErrOrStderr(), args)
+			return err
+		},
 	}
 	cmd.Flags().StringVar(&a.rulesDir, "rules", "", "folder `DIR` of rule sets (*.yaml) that records name by rules_ref")
 	cmd.Flags().StringVar(&a.out, "out", "", "write the summary, tables and report into `DIR`")
@@ -101,7 +109,8 @@ Measures: ` + strings.Join(auditMeasures, ", ") + `.`,
 	cmd.Flags().IntVar(&a.maxBad, "max-bad", -1, "exit 2 when more than `N` records are bad (default: no limit)")
 	cmd.Flags().IntVar(&a.workers, "workers", 0, "records audited at once (default: one per core)")
 	cmd.Flags().IntVar(&a.worst, "worst", 5, "pictures of the `N` records with the most disagreements in the report")
-	cmd.Flags().StringVar(&a.streetsFile, "streets", "", "streets `FILE` (GeoJSON lines) drawn in the report's pictures")
+	cmd.Flags().StringVar(&a.streetsFile, "streets", "", "streets `FILE` (GeoJSON lines named by properties.name) drawn in the report's pictures")
+	cmd.Flags().StringVar(&a.namesFile, "names", "", "markers `FILE` (GeoJSON points with properties.id and .name) naming candidates in the pictures")
 	return cmd
 }
 
@@ -134,39 +143,58 @@ func loadRuleSets(dir string) (audit.RuleSets, error) {
 	return sets, nil
 }
 
-func (a *auditCmd) run(cmd *cobra.Command, logs []string) error {
-	stdout, stderr := cmd.OutOrStdout(), cmd.ErrOrStderr()
+// run audits logs, prints the summary to stdout and bad records to stderr,
+// writes --out, and returns the summary; the error carries the exit code.
+func (a *auditCmd) run(stdout, stderr io.Writer, logs []string) (*audit.Summary, error) {
+	sum, err := a.audit(stdout, stderr, logs)
+	if err != nil {
+		return sum, err
+	}
+	return sum, a.gate(sum)
+}
+
+func (a *auditCmd) audit(stdout, stderr io.Writer, logs []string) (*audit.Summary, error) {
 	var conds []gate.Condition
 	for _, s := range a.failIf {
 		c, err := gate.ParseConditionAmong(s, auditMeasures)
 		if err != nil {
-			return &exitError{2, fmt.Errorf("--fail-if %v", err)}
+			return nil, &exitError{2, fmt.Errorf("--fail-if %v", err)}
 		}
 		conds = append(conds, c)
 	}
 	for _, l := range logs {
 		if _, err := os.Stat(l); err != nil {
-			return &exitError{2, err}
+			return nil, &exitError{2, err}
 		}
 	}
 	sets, err := loadRuleSets(a.rulesDir)
 	if err != nil {
-		return &exitError{2, err}
+		return nil, &exitError{2, err}
 	}
 	var streets []render.Street
 	if a.streetsFile != "" {
 		if streets, err = readStreets(a.streetsFile); err != nil {
-			return &exitError{2, err}
+			return nil, err
 		}
+	}
+	var names map[string]string
+	if a.namesFile != "" {
+		if _, err := os.Stat(a.namesFile); err != nil {
+			return nil, &exitError{2, err}
+		}
+		names = readMarkerNames(a.namesFile)
 	}
 	if a.out != "" {
 		if err := os.MkdirAll(a.out, 0o755); err != nil {
-			return &exitError{2, err}
+			return nil, &exitError{2, err}
 		}
 	}
 
 	var bads []*audit.BadRecord
 	worst := &audit.Worst{K: a.worst}
+	if len(a.by) > 0 {
+		worst.ByTag = a.by[0]
+	}
 	opt := audit.Options{Sets: sets, By: a.by, Workers: a.workers,
 		OnBad: func(b *audit.BadRecord) {
 			if len(bads) < 20 {
@@ -176,9 +204,7 @@ func (a *auditCmd) run(cmd *cobra.Command, logs []string) error {
 			}
 			bads = append(bads, b)
 		}}
-	if bar := auditBar(cmd, logs); bar != nil {
-		opt.OnBytes = bar
-	}
+	opt.OnBytes = a.bar
 	var tot *audit.Totals
 	runAudit := func(table *audit.TableWriter) error {
 		opt.OnResult = func(r *audit.Result) error {
@@ -212,18 +238,18 @@ func (a *auditCmd) run(cmd *cobra.Command, logs []string) error {
 		})
 	}
 	if err != nil {
-		return &exitError{2, err}
+		return nil, &exitError{2, err}
 	}
 	sum := tot.Summary()
 	if a.out != "" {
-		if err := a.writeOut(&sum, bads, worst, streets); err != nil {
-			return err
+		if err := a.writeOut(&sum, bads, worst, streets, names); err != nil {
+			return nil, err
 		}
 	}
 	if a.asJSON {
 		b, err := json.Marshal(sum)
 		if err != nil {
-			return err
+			return nil, err
 		}
 		fmt.Fprintf(stdout, "%s\n", b)
 	} else {
@@ -233,11 +259,17 @@ func (a *auditCmd) run(cmd *cobra.Command, logs []string) error {
 		}
 	}
 	if a.maxBad >= 0 && sum.BadRecords > int64(a.maxBad) {
-		return &exitError{2, fmt.Errorf("%d bad records, more than --max-bad %d", sum.BadRecords, a.maxBad)}
+		return &sum, &exitError{2, fmt.Errorf("%d bad records, more than --max-bad %d", sum.BadRecords, a.maxBad)}
 	}
+	a.conds = conds
+	return &sum, nil
+}
+
+// gate returns an exit-1 error naming each --fail-if condition that holds.
+func (a *auditCmd) gate(sum *audit.Summary) error {
 	var held []string
-	for _, c := range conds {
-		if v := auditMeasure(&sum, c.Measure); c.Compare(v) {
+	for _, c := range a.conds {
+		if v := auditMeasure(sum, c.Measure); c.Compare(v) {
 			held = append(held, fmt.Sprintf("%s (%s is %g)", c, c.Measure, v))
 		}
 	}
@@ -248,7 +280,7 @@ func (a *auditCmd) run(cmd *cobra.Command, logs []string) error {
 }
 
 // writeOut writes summary.json, bad-records.jsonl and report.html.
-func (a *auditCmd) writeOut(sum *audit.Summary, bads []*audit.BadRecord, worst *audit.Worst, streets []render.Street) error {
+func (a *auditCmd) writeOut(sum *audit.Summary, bads []*audit.BadRecord, worst *audit.Worst, streets []render.Street, names map[string]string) error {
 	b, err := json.MarshalIndent(sum, "", "  ")
 	if err != nil {
 		return err
@@ -266,7 +298,7 @@ func (a *auditCmd) writeOut(sum *audit.Summary, bads []*audit.BadRecord, worst *
 	}
 	var moments []*audit.Moment
 	for _, r := range worst.Keep {
-		m, err := audit.MomentOf(r, nil, streets)
+		m, err := audit.MomentOf(r, names, streets)
 		if err != nil {
 			return err
 		}

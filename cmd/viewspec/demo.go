@@ -110,6 +110,9 @@ func runDemo(w io.Writer, dir, python string) error {
 	if err := d.drives(town); err != nil {
 		return err
 	}
+	if err := d.fleet(town); err != nil {
+		return err
+	}
 	d.printSummary()
 	return nil
 }
