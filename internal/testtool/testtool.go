@@ -45,3 +45,21 @@ func NeedPythonModule(tb testing.TB, module, debianPackage string) string {
 	tb.Skipf("python3 with %s not found: install the Debian package %s (apt-get install -y %s) to run this check", module, debianPackage, debianPackage)
 	return ""
 }
+
+// NeedNodeModule returns the path of node when it can require module (found
+// through NODE_PATH). It skips, or fails under CI=true, saying how to
+// install it: Debian's nodejs and npm, then `npm install module@version`
+// into a folder named by NODE_PATH.
+func NeedNodeModule(tb testing.TB, module, version string) string {
+	tb.Helper()
+	node, err := exec.LookPath("node")
+	if err == nil && exec.Command(node, "-e", "require.resolve('"+module+"')").Run() == nil {
+		return node
+	}
+	how := "install Debian's nodejs and npm, then npm install --prefix DIR " + module + "@" + version + " and set NODE_PATH=DIR/node_modules"
+	if os.Getenv("CI") == "true" {
+		tb.Fatalf("node with %s not found (CI=true): %s", module, how)
+	}
+	tb.Skipf("node with %s not found: %s, to run this check", module, how)
+	return ""
+}
