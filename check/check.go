@@ -106,6 +106,11 @@ func (r *Report) Verdict() string {
 
 // Checker accumulates case results into a report.
 type Checker struct {
+	// KeepCases keeps every case's result in the report (Report.Cases,
+	// which the JUnit file lists in full); without it only the results
+	// not passed are kept, so that memory does not grow with the corpus.
+	KeepCases bool
+
 	p     Profile
 	r     Report
 	worst []WorstDiff
@@ -114,27 +119,40 @@ type Checker struct {
 
 // NewChecker starts a report under profile p.
 func NewChecker(p Profile) *Checker {
-	return &Checker{p: p, r: Report{Profile: p.Name, ByOp: map[string]*Counts{}, ByFamily: map[string]*Counts{}},
+	return &Checker{p: p, r: Report{Profile: p.Name, ByOp: map[string]*Counts{}, ByFamily: map[string]*Counts{}, NotPassed: []CaseResult{}},
 		fams: map[[2]string]*Counts{}}
 }
 
 // Check compares one case with its answer (nil when there is none) and
 // records the outcome.
 func (ck *Checker) Check(c *corpus.Case, got json.RawMessage) CaseResult {
+	res := compareCase(c, got, &ck.p)
+	ck.add(c, res)
+	return res
+}
+
+// compareCase returns the outcome of one case and its answer (nil when
+// there is none) under profile p; it records nothing, so that cases can be
+// compared on several cores and recorded in order.
+func compareCase(c *corpus.Case, got json.RawMessage, p *Profile) CaseResult {
 	res := CaseResult{ID: c.ID, Op: c.Op, Family: c.Family}
 	if got == nil {
 		res.Status, res.Note = Missing, "no answer"
 	} else {
-		res.Status, res.Diffs = Compare(c, got, &ck.p)
-		for _, d := range res.Diffs {
-			ck.worst = append(ck.worst, WorstDiff{CaseID: c.ID, Diff: d, Request: c.Request})
-		}
-		if len(ck.worst) > 64 {
-			ck.trimWorst()
-		}
+		res.Status, res.Diffs = Compare(c, got, p)
+	}
+	return res
+}
+
+// add records a compared case: its outcome and its largest differences.
+func (ck *Checker) add(c *corpus.Case, res CaseResult) {
+	for _, d := range res.Diffs {
+		ck.worst = append(ck.worst, WorstDiff{CaseID: c.ID, Diff: d, Request: c.Request})
+	}
+	if len(ck.worst) > 64 {
+		ck.trimWorst()
 	}
 	ck.Record(res)
-	return res
 }
 
 // Record adds a result decided elsewhere (skipped, or missing with a note).
@@ -154,7 +172,12 @@ func (ck *Checker) Record(res CaseResult) {
 		ck.r.ByFamily[res.Op+"/"+res.Family] = fam
 	}
 	fam.add(res.Status)
-	ck.r.Cases = append(ck.r.Cases, res)
+	if res.Status != Pass && res.Status != Skipped {
+		ck.r.NotPassed = append(ck.r.NotPassed, res)
+	}
+	if ck.KeepCases {
+		ck.r.Cases = append(ck.r.Cases, res)
+	}
 }
 
 // Stray records an answer that belongs to no case.
@@ -177,18 +200,13 @@ func (ck *Checker) Report() *Report {
 	if ck.r.Worst == nil {
 		ck.r.Worst = []WorstDiff{}
 	}
-	ck.r.NotPassed = []CaseResult{}
-	for _, cr := range ck.r.Cases {
-		if cr.Status != Pass && cr.Status != Skipped {
-			ck.r.NotPassed = append(ck.r.NotPassed, cr)
-		}
-	}
 	return &ck.r
 }
 
 // CheckAnswers checks answers (matched by id) against the corpus.
 func CheckAnswers(cases []corpus.Case, answers []corpus.Answer, bad []string, p Profile) *Report {
 	ck := NewChecker(p)
+	ck.KeepCases = true
 	byID := make(map[string]json.RawMessage, len(answers))
 	for _, a := range answers {
 		if _, dup := byID[a.ID]; dup {
@@ -263,7 +281,7 @@ func (r *Report) WriteText(w io.Writer) error {
 		}
 	}
 	missing := 0
-	for _, cr := range r.Cases {
+	for _, cr := range r.NotPassed {
 		if cr.Status == Missing && cr.Note != "no answer" && missing < 10 {
 			fmt.Fprintf(w, "missing %s: %s\n", cr.ID, cr.Note)
 			missing++
@@ -333,11 +351,16 @@ type junitSkipped struct {
 	Message string `xml:"message,attr"`
 }
 
-// WriteJUnit writes the report as JUnit XML.
+// WriteJUnit writes the report as JUnit XML: every case when the checker
+// kept them all (Checker.KeepCases), else the cases not passed.
 func (r *Report) WriteJUnit(w io.Writer) error {
 	suites := map[string]*junitSuite{}
 	out := junitSuites{Name: "viewspec (" + r.Profile + ")"}
-	for _, cr := range r.Cases {
+	cases := r.Cases
+	if cases == nil {
+		cases = r.NotPassed
+	}
+	for _, cr := range cases {
 		s := suites[cr.Op]
 		if s == nil {
 			s = &junitSuite{Name: cr.Op}

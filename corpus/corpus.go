@@ -8,12 +8,14 @@ import (
 	"io"
 	"slices"
 	"strings"
+	"sync"
 
 	"github.com/viewspec/viewspec/reference"
 	"github.com/viewspec/viewspec/spec"
 	"github.com/viewspec/viewspec/wire"
 
 	jsonv2 "github.com/go-json-experiment/json"
+	"github.com/go-json-experiment/json/jsontext"
 
 	"github.com/viewspec/viewspec/internal/atomicfile"
 )
@@ -78,24 +80,140 @@ func ReadCorpus(name string, r io.Reader) ([]Case, error) {
 
 // ParseCase reads one corpus line: it must have an id, an op, and a request
 // and an expectation that are objects. The case keeps copies of its raw
-// parts.
+// parts (one copy of the line, which its parts share).
 func ParseCase(b []byte) (Case, error) {
+	var c Case
+	d := caseDecoders.Get().(*caseDecoder)
+	ok := d.parse(b, &c)
+	caseDecoders.Put(d)
+	if !ok {
+		return parseCaseGeneral(b)
+	}
+	return c, c.check()
+}
+
+// parseCaseGeneral is ParseCase by the general decoder, which takes any
+// spelling the fast path leaves to it.
+func parseCaseGeneral(b []byte) (Case, error) {
 	var c Case
 	if err := json.Unmarshal(b, &c); err != nil {
 		_, msg := wire.DecodeError(err)
 		return c, errors.New("not a corpus line: " + msg)
 	}
+	return c, c.check()
+}
+
+// check returns what a decoded case lacks.
+func (c *Case) check() error {
 	switch {
 	case c.ID == "":
-		return c, errors.New("id: missing")
+		return errors.New("id: missing")
 	case c.Op == "":
-		return c, errors.New("op: missing")
+		return errors.New("op: missing")
 	case len(c.Request) == 0 || c.Request[0] != '{':
-		return c, errors.New("request: missing or not an object")
+		return errors.New("request: missing or not an object")
 	case len(c.Expect) == 0 || c.Expect[0] != '{':
-		return c, errors.New("expect: missing or not an object")
+		return errors.New("expect: missing or not an object")
 	}
-	return c, nil
+	return nil
+}
+
+// caseDecoder is a reusable token reader for corpus lines.
+type caseDecoder struct {
+	r       bytes.Reader
+	d       *jsontext.Decoder
+	strings map[string]string // ops and families met, shared by their cases
+}
+
+// intern returns the string of a quoted JSON string without escapes, the
+// same string for the same bytes (a corpus has a few dozen ops and
+// families); it reports false for one with escapes or too many distinct.
+func (cd *caseDecoder) intern(quoted []byte) (string, bool) {
+	b := quoted[1 : len(quoted)-1]
+	if bytes.IndexByte(b, '\\') >= 0 {
+		return "", false
+	}
+	if s, ok := cd.strings[string(b)]; ok {
+		return s, true
+	}
+	if len(cd.strings) >= 1024 {
+		return string(b), true
+	}
+	s := string(b)
+	cd.strings[s] = s
+	return s, true
+}
+
+var caseDecoders = sync.Pool{New: func() any {
+	cd := &caseDecoder{strings: map[string]string{}}
+	cd.d = jsontext.NewDecoder(&cd.r)
+	return cd
+}}
+
+// parse reads the usual corpus line, an object of the six case
+// keys spelt exactly, each once, with string id, family and op, without
+// reflection. It reports false for anything else (other or repeated keys,
+// other spellings, invalid JSON or UTF-8), which the general decoder then
+// reads, so that both paths give the same case or the same error.
+func (cd *caseDecoder) parse(b []byte, c *Case) bool {
+	line := append([]byte(nil), b...)
+	cd.r.Reset(line)
+	d := cd.d
+	d.Reset(&cd.r)
+	if t, err := d.ReadToken(); err != nil || t.Kind() != '{' {
+		return false
+	}
+	for d.PeekKind() == '"' {
+		name, err := d.ReadToken()
+		if err != nil {
+			return false
+		}
+		key := name.String()
+		switch key {
+		case "id":
+			t, err := d.ReadToken()
+			if err != nil || t.Kind() != '"' {
+				return false
+			}
+			c.ID = t.String()
+		case "family", "op":
+			v, err := d.ReadValue()
+			if err != nil || v.Kind() != '"' {
+				return false
+			}
+			str, ok := cd.intern(v)
+			if !ok {
+				return false
+			}
+			if key == "op" {
+				c.Op = str
+			} else {
+				c.Family = str
+			}
+		case "request", "expect", "margins":
+			v, err := d.ReadValue()
+			if err != nil {
+				return false
+			}
+			end := int(d.InputOffset())
+			raw := json.RawMessage(line[end-len(v) : end : end])
+			switch key {
+			case "request":
+				c.Request = raw
+			case "expect":
+				c.Expect = raw
+			default:
+				c.Margins = raw
+			}
+		default:
+			return false
+		}
+	}
+	if t, err := d.ReadToken(); err != nil || t.Kind() != '}' {
+		return false
+	}
+	_, err := d.ReadToken()
+	return err == io.EOF
 }
 
 // Answer is one answer line as read from an implementation: its id and the

@@ -26,6 +26,9 @@ const MaxLineBytes = wire.MaxLineBytes
 // include the implementation's start-up on a loaded machine.
 const helloTimeout = 15 * time.Second
 
+// sendFlushLines is how many lines Send writes between flushes.
+const sendFlushLines = 256
+
 // DefaultTimeout is the wait for one answer when none is given.
 const DefaultTimeout = 5 * time.Second
 
@@ -141,14 +144,22 @@ func (p *Process) Answer(line []byte) ([]byte, error) {
 }
 
 // Send writes the lines, each with a newline, then closes the process's
-// stdin; it returns the first write error. It may run beside Next.
+// stdin; it returns the first write error. It may run beside Next. Lines
+// are flushed every sendFlushLines, so that the process sees them while
+// the caller still makes the rest.
 func (p *Process) Send(lines func(yield func([]byte) bool)) error {
 	bw := bufio.NewWriterSize(p.stdin, 64<<10)
 	var err error
+	n := 0
 	for l := range lines {
 		bw.Write(l)
 		if err = bw.WriteByte('\n'); err != nil {
 			break
+		}
+		if n++; n%sendFlushLines == 0 {
+			if err = bw.Flush(); err != nil {
+				break
+			}
 		}
 	}
 	if err == nil {

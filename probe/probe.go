@@ -382,7 +382,7 @@ func scanOp(impl Impl, op string, opt *Options) (*Disagreement, error) {
 		// in the order they were decided).
 		first := -1
 		var firstRes check.CaseResult
-		for _, res := range ck.Report().Cases {
+		for _, res := range ck.Report().NotPassed {
 			if i, ok := at[res.ID]; ok && (res.Status == check.Fail || res.Status == check.Missing) && (first < 0 || i < first) {
 				first, firstRes = i, res
 			}

@@ -36,6 +36,9 @@ var requestOpts = jsonv2.JoinOptions(jsonv2.DefaultOptionsV2(), jsontext.AllowDu
 // JSON but a field has the wrong type, the error is returned and req still
 // holds the line's id, so that the error answer echoes it.
 func DecodeRequest(line []byte, req *Request) error {
+	if decodeCameraFast(line, req) {
+		return nil
+	}
 	err := decodeRequest(line, req)
 	if err != nil && len(req.ID) == 0 {
 		req.ID = peekID(line)

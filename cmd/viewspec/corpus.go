@@ -240,20 +240,22 @@ answers, 2 unusable input.`,
 			if err != nil {
 				return err
 			}
-			cases, err := readCorpusFile(args[0])
-			if err != nil {
-				return err
-			}
-			f, err := os.Open(args[1])
+			cf, err := os.Open(args[0])
 			if err != nil {
 				return &exitError{2, err}
 			}
-			defer f.Close()
-			answers, bad, err := corpus.ReadAnswers(args[1], readingBar(cmd, f, "reading answers"))
+			defer cf.Close()
+			af, err := os.Open(args[1])
 			if err != nil {
 				return &exitError{2, err}
 			}
-			return rf.emit(cmd, check.CheckAnswers(cases, answers, bad, p))
+			defer af.Close()
+			ck := check.NewChecker(p)
+			ck.KeepCases = rf.junit != ""
+			if err := check.CheckStreams(args[0], readingBar(cmd, cf, "checking"), args[1], af, ck); err != nil {
+				return &exitError{2, err}
+			}
+			return rf.emit(cmd, ck.Report())
 		},
 	}
 	rf.register(cmd)
@@ -290,20 +292,22 @@ one SVG per case named after its id.`,
 			if err != nil {
 				return err
 			}
-			cases, err := readCorpusFile(args[0])
-			if err != nil {
-				return err
-			}
 			if timeout <= 0 {
 				return &exitError{2, fmt.Errorf("--timeout = %v: must be positive", timeout)}
 			}
+			cf, err := os.Open(args[0])
+			if err != nil {
+				return &exitError{2, err}
+			}
+			defer cf.Close()
 			ck := check.NewChecker(p)
-			opt := check.RunOptions{Command: impl, Timeout: timeout, Ops: only, Progress: countBar(cmd, "checking")}
+			ck.KeepCases = rf.junit != ""
+			opt := check.RunOptions{Command: impl, Timeout: timeout, Ops: only}
 			var worst worstCases
 			if picturesDir != "" {
 				opt.OnChecked = worst.add
 			}
-			res, err := check.Run(cases, opt, ck)
+			res, err := check.RunStream(args[0], readingBar(cmd, cf, "checking"), opt, ck)
 			if err != nil {
 				return &exitError{2, err}
 			}
