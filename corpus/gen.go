@@ -7,6 +7,7 @@ import (
 	"hash/fnv"
 	"io"
 	"math"
+	"runtime"
 	"math/rand/v2"
 	"strconv"
 	"strings"
@@ -32,31 +33,100 @@ func Generate(w io.Writer, seed uint64, count int, only map[string]bool) (int, e
 			total += p.Weight
 		}
 	}
-	n := 0
-	var line []byte
-	for _, p := range props.Plans() {
-		if only != nil && !only[p.Op] {
-			continue
+	// Each case has a random source of its own (caseRand), so cases are
+	// made on every core, in batches, and written in order.
+	quit := make(chan struct{})
+	defer close(quit)
+	work := make(chan *genBatch, 4)
+	order := make(chan *genBatch, 4+runtime.GOMAXPROCS(0))
+	go func() {
+		defer close(work)
+		defer close(order)
+		b := &genBatch{done: make(chan struct{})}
+		send := func() bool {
+			select {
+			case order <- b:
+			case <-quit:
+				return false
+			}
+			select {
+			case work <- b:
+			case <-quit:
+				return false
+			}
+			b = &genBatch{done: make(chan struct{})}
+			return true
 		}
-		per := max(1, int(math.Round(float64(count)*p.Weight/total/float64(len(p.Families)))))
-		for _, fam := range p.Families {
-			for k := range per {
-				c, err := genCase(seed, p.Op, fam, k)
-				if err != nil {
-					return n, err
+		for _, p := range props.Plans() {
+			if only != nil && !only[p.Op] {
+				continue
+			}
+			per := max(1, int(math.Round(float64(count)*p.Weight/total/float64(len(p.Families)))))
+			for _, fam := range p.Families {
+				for k := range per {
+					b.jobs = append(b.jobs, genJob{p.Op, fam, k})
+					if len(b.jobs) == genBatchSize && !send() {
+						return
+					}
 				}
-				line, err = appendCase(line[:0], c)
-				if err != nil {
-					return n, err
-				}
-				if _, err := w.Write(line); err != nil {
-					return n, err
-				}
-				n++
 			}
 		}
+		if len(b.jobs) > 0 {
+			send()
+		}
+	}()
+	for range runtime.GOMAXPROCS(0) {
+		go func() {
+			for b := range work {
+				b.make(seed)
+			}
+		}()
+	}
+	n := 0
+	for b := range order {
+		<-b.done
+		if b.err != nil {
+			return n, b.err
+		}
+		if _, err := w.Write(b.out); err != nil {
+			return n, err
+		}
+		n += len(b.jobs)
 	}
 	return n, nil
+}
+
+// genBatchSize is how many cases one worker makes at a time.
+const genBatchSize = 32
+
+// genJob names one case to make: its op, family and index.
+type genJob struct {
+	op  string
+	fam props.Family
+	k   int
+}
+
+// genBatch is cases made together, their lines in order.
+type genBatch struct {
+	jobs []genJob
+	out  []byte
+	err  error
+	done chan struct{}
+}
+
+// make makes the batch's cases, stopping at the first error.
+func (b *genBatch) make(seed uint64) {
+	defer close(b.done)
+	for _, j := range b.jobs {
+		c, err := genCase(seed, j.op, j.fam, j.k)
+		if err == nil {
+			b.out, err = appendCase(b.out, c)
+		}
+		if err != nil {
+			b.err = err
+			return
+		}
+	}
 }
 
 // caseRand is the random source of one case: the seed and a hash of the

@@ -1,0 +1,106 @@
+package timeline_test
+
+import (
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"github.com/paulmach/orb"
+
+	"github.com/viewspec/viewspec/routes"
+	"github.com/viewspec/viewspec/timeline"
+)
+
+// How the timeline grows, one dimension at a time from the 200-marker,
+// 500-vertex, 120 s at 0.25 s drive of BenchmarkTimeline:
+//
+//	go test ./timeline -run '^$' -bench 'Scale|WholeRequest' -cpu 1
+//
+// and the whole request a server makes per user (snap, metrics for every
+// marker, the timeline) on a prepared route. Targets: the whole request
+// ≤ 0.5 ms and the timeline alone ≤ 0.25 ms at 200 markers, per core.
+
+// scaleDrive is benchDrive's road and rules with n vertices (about 30 m
+// apart) and m markers within 300 m of it.
+func scaleDrive(b *testing.B, nVertices, nMarkers int) (timeline.Drive, []timeline.Marker) {
+	d, _ := benchDrive(b)
+	rng := rand.New(rand.NewPCG(uint64(nVertices), uint64(nMarkers)))
+	pts := make([]orb.Point, nVertices)
+	lat, lon, dir := 44.93, -31.17, 0.5
+	for i := range pts {
+		pts[i] = orb.Point{lon, lat}
+		dir += (rng.Float64() - 0.5) * 0.3
+		lat += 0.00027 * math.Cos(dir)
+		lon += 0.00027 * math.Sin(dir) / math.Cos(lat*math.Pi/180)
+	}
+	r, err := routes.New(pts, []float64{25})
+	if err != nil {
+		b.Fatal(err)
+	}
+	// Markers within the first 4 km (a 120 s drive at 90 km/h is 3 km),
+	// so that every size of route sees the same density of markers.
+	reach := min(r.LengthM(), 4000)
+	ms := make([]timeline.Marker, nMarkers)
+	for i := range ms {
+		p := r.PointAt(rng.Float64() * reach)
+		ms[i] = timeline.Marker{ID: fmt.Sprintf("shop-%04d", i),
+			Point:    orb.Point{p[0] + (rng.Float64()-0.5)*0.008, p[1] + (rng.Float64()-0.5)*0.006},
+			Priority: float64(rng.IntN(4))}
+	}
+	nd := timeline.NewDrive(r, 0, d.Device, d.Rules)
+	return nd, ms
+}
+
+func runTimeline(b *testing.B, d *timeline.Drive, ms []timeline.Marker) {
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := timeline.Compute(d, ms); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkScaleMarkers(b *testing.B) {
+	for _, m := range []int{50, 200, 1000, 5000} {
+		d, ms := scaleDrive(b, 500, m)
+		b.Run(fmt.Sprintf("markers=%d", m), func(b *testing.B) { runTimeline(b, &d, ms) })
+	}
+}
+
+func BenchmarkScaleRoute(b *testing.B) {
+	for _, n := range []int{100, 500, 2000, 5000, 20000} {
+		d, ms := scaleDrive(b, n, 200)
+		b.Run(fmt.Sprintf("vertices=%d", n), func(b *testing.B) { runTimeline(b, &d, ms) })
+	}
+}
+
+func BenchmarkScaleHorizonTick(b *testing.B) {
+	for _, h := range []float64{120, 600} {
+		for _, tick := range []float64{0.25, 0.1} {
+			d, ms := scaleDrive(b, 5000, 200)
+			d.HorizonS, d.TickS = h, tick
+			b.Run(fmt.Sprintf("horizon=%gs/tick=%gs", h, tick), func(b *testing.B) { runTimeline(b, &d, ms) })
+		}
+	}
+}
+
+var sinkMetrics routes.Metrics
+
+// BenchmarkWholeRequest is what a server does for one user on a prepared
+// route: snap the user, the metrics of 200 markers, the 120 s timeline.
+func BenchmarkWholeRequest(b *testing.B) {
+	d, ms := benchDrive(b)
+	user := orb.Point{-31.1697, 44.9312}
+	b.ReportAllocs()
+	for b.Loop() {
+		u := d.Route.Snap(user)
+		for i := range ms {
+			sinkMetrics = d.Route.Metrics(u, ms[i].Point)
+		}
+		if _, err := timeline.Compute(&d, ms); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
