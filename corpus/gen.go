@@ -7,8 +7,8 @@ import (
 	"hash/fnv"
 	"io"
 	"math"
-	"runtime"
 	"math/rand/v2"
+	"runtime"
 	"strconv"
 	"strings"
 

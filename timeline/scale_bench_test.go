@@ -103,4 +103,3 @@ func BenchmarkWholeRequest(b *testing.B) {
 		}
 	}
 }
-
