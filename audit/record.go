@@ -106,10 +106,18 @@ type RuleSets map[string]*rules.Set
 // *spec.FieldError, or a JSON error whose message wire.DecodeError words.
 func DecodeRecord(line []byte, sets RuleSets) (*Record, error) {
 	var w wireRecord
-	if err := wire.Unmarshal(line, &w); err != nil {
-		return nil, err
+	if !decodeRecordFast(line, &w) {
+		if err := decodeRecordGeneral(line, &w); err != nil {
+			return nil, err
+		}
 	}
 	return w.record(sets)
+}
+
+// decodeRecordGeneral reads a record by the general decoder.
+func decodeRecordGeneral(line []byte, w *wireRecord) error {
+	*w = wireRecord{}
+	return wire.Unmarshal(line, w)
 }
 
 func (w *wireRecord) record(sets RuleSets) (*Record, error) {
@@ -171,31 +179,31 @@ func (w *wireRecord) record(sets RuleSets) (*Record, error) {
 	rec.Displayed = make([]*Display, len(rec.Candidates))
 	ds := make([]Display, len(w.Shown))
 	for i, s := range w.Shown {
-		f := spec.Index("shown", i)
+		f := func() string { return spec.Index("shown", i) }
 		switch {
 		case s == nil:
-			return nil, spec.Absent(f)
+			return nil, spec.Absent(f())
 		case s.ID == nil:
-			return nil, spec.Absent(f + ".id")
+			return nil, spec.Absent(f() + ".id")
 		case s.FirstShownS == nil:
-			return nil, spec.Absent(f + ".first_shown_s")
+			return nil, spec.Absent(f() + ".first_shown_s")
 		case s.ShownS == nil:
-			return nil, spec.Absent(f + ".shown_s")
+			return nil, spec.Absent(f() + ".shown_s")
 		}
 		j, ok := index[*s.ID]
 		switch {
 		case !ok:
-			return nil, &spec.FieldError{Field: f + ".id", Value: *s.ID, Reason: "not a candidate of this request"}
+			return nil, &spec.FieldError{Field: f() + ".id", Value: *s.ID, Reason: "not a candidate of this request"}
 		case rec.Displayed[j] != nil:
-			return nil, &spec.FieldError{Field: f + ".id", Value: *s.ID, Reason: "displayed twice in the log"}
+			return nil, &spec.FieldError{Field: f() + ".id", Value: *s.ID, Reason: "displayed twice in the log"}
 		case !(*s.FirstShownS >= 0 && *s.FirstShownS <= rec.Drive.HorizonS):
-			return nil, spec.Out(f+".first_shown_s", *s.FirstShownS, "must lie within the horizon [0, "+spec.FormatNumber(rec.Drive.HorizonS)+"] s")
+			return nil, spec.Out(f()+".first_shown_s", *s.FirstShownS, "must lie within the horizon [0, "+spec.FormatNumber(rec.Drive.HorizonS)+"] s")
 		case !(*s.ShownS >= 0 && *s.ShownS <= rec.Drive.HorizonS+rec.Drive.TickS):
-			return nil, spec.Out(f+".shown_s", *s.ShownS, "must lie within [0, horizon + a tick]")
+			return nil, spec.Out(f()+".shown_s", *s.ShownS, "must lie within [0, horizon + a tick]")
 		}
 		ds[i] = Display{FirstShownS: *s.FirstShownS, ShownS: *s.ShownS}
 		if s.IntervalsS != nil {
-			if ds[i].Intervals, err = intervals(s.IntervalsS, f+".intervals_s", rec.Drive.HorizonS+rec.Drive.TickS); err != nil {
+			if ds[i].Intervals, err = intervals(s.IntervalsS, func() string { return f() + ".intervals_s" }, rec.Drive.HorizonS+rec.Drive.TickS); err != nil {
 				return nil, err
 			}
 		}
@@ -205,36 +213,35 @@ func (w *wireRecord) record(sets RuleSets) (*Record, error) {
 		rec.Predicted = make([]*[4]float64, len(rec.Candidates))
 		ps := make([][4]float64, len(w.Predicted))
 		for i, p := range w.Predicted {
-			f := spec.Index("predicted", i)
+			f := func() string { return spec.Index("predicted", i) }
 			switch {
 			case p == nil:
-				return nil, spec.Absent(f)
+				return nil, spec.Absent(f())
 			case p.ID == nil:
-				return nil, spec.Absent(f + ".id")
+				return nil, spec.Absent(f() + ".id")
 			case len(p.P) != 4:
-				return nil, &spec.FieldError{Field: f + ".p", Reason: "want 4 probabilities (early, mid, late, never)"}
+				return nil, &spec.FieldError{Field: f() + ".p", Reason: "want 4 probabilities (early, mid, late, never)"}
 			}
 			j, ok := index[*p.ID]
 			switch {
 			case !ok:
-				return nil, &spec.FieldError{Field: f + ".id", Value: *p.ID, Reason: "not a candidate of this request"}
+				return nil, &spec.FieldError{Field: f() + ".id", Value: *p.ID, Reason: "not a candidate of this request"}
 			case rec.Predicted[j] != nil:
-				return nil, &spec.FieldError{Field: f + ".id", Value: *p.ID, Reason: "predicted twice"}
+				return nil, &spec.FieldError{Field: f() + ".id", Value: *p.ID, Reason: "predicted twice"}
 			}
 			sum := 0.0
 			for k, v := range p.P {
-				fk := spec.Index(f+".p", k)
 				if v == nil {
-					return nil, spec.Absent(fk)
+					return nil, spec.Absent(spec.Index(f()+".p", k))
 				}
 				if !(*v >= 0 && *v <= 1) {
-					return nil, spec.Out(fk, *v, "a probability must lie in [0, 1]")
+					return nil, spec.Out(spec.Index(f()+".p", k), *v, "a probability must lie in [0, 1]")
 				}
 				ps[i][k] = *v
 				sum += *v
 			}
 			if math.Abs(sum-1) > ProbabilitySumTol {
-				return nil, spec.Out(f+".p", sum, "the probabilities must sum to 1 within 1e-6 (they sum to this)")
+				return nil, spec.Out(f()+".p", sum, "the probabilities must sum to 1 within 1e-6 (they sum to this)")
 			}
 			rec.Predicted[j] = &ps[i]
 		}
@@ -267,25 +274,25 @@ func (r *Record) UserAt() orb.Point { return r.Fixes[0].Point }
 
 // intervals checks a display's intervals: pairs [from, to), from < to,
 // each starting at or after the one before ends, within [0, limit].
-func intervals(ws [][]*float64, path string, limit float64) ([][2]float64, error) {
+func intervals(ws [][]*float64, path func() string, limit float64) ([][2]float64, error) {
 	out := make([][2]float64, len(ws))
 	end := 0.0
 	for i, w := range ws {
-		f := spec.Index(path, i)
+		f := func() string { return spec.Index(path(), i) }
 		if len(w) != 2 {
-			return nil, &spec.FieldError{Field: f, Reason: "want [from_s, to_s]"}
+			return nil, &spec.FieldError{Field: f(), Reason: "want [from_s, to_s]"}
 		}
 		for k := range 2 {
 			if w[k] == nil {
-				return nil, spec.Absent(spec.Index(f, k))
+				return nil, spec.Absent(spec.Index(f(), k))
 			}
 		}
 		from, to := *w[0], *w[1]
 		switch {
 		case !(from >= end):
-			return nil, spec.Out(spec.Index(f, 0), from, "intervals must start at or after 0 and after the one before ends")
+			return nil, spec.Out(spec.Index(f(), 0), from, "intervals must start at or after 0 and after the one before ends")
 		case !(to > from && to <= limit):
-			return nil, spec.Out(spec.Index(f, 1), to, "an interval must end after it starts, within the horizon and a tick")
+			return nil, spec.Out(spec.Index(f(), 1), to, "an interval must end after it starts, within the horizon and a tick")
 		}
 		out[i] = [2]float64{from, to}
 		end = to

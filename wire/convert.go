@@ -228,17 +228,19 @@ func Markers(ws []*Marker, path string) ([]timeline.Marker, error) {
 	}
 	out := make([]timeline.Marker, len(ws))
 	for i, w := range ws {
-		if w == nil {
-			return nil, spec.Absent(spec.Index(path, i))
-		}
-		if w.ID == nil {
-			return nil, spec.Absent(spec.Index(path, i) + ".id")
-		}
-		p, err := (&Point{Lat: w.Lat, Lon: w.Lon}).Value(spec.Index(path, i))
-		if err != nil {
+		// The usual marker is checked without naming its field; the name
+		// is made only for the error.
+		if w == nil || w.ID == nil || w.Lat == nil || w.Lon == nil || spec.CheckLatLon("", *w.Lat, *w.Lon) != nil {
+			if w == nil {
+				return nil, spec.Absent(spec.Index(path, i))
+			}
+			if w.ID == nil {
+				return nil, spec.Absent(spec.Index(path, i) + ".id")
+			}
+			_, err := (&Point{Lat: w.Lat, Lon: w.Lon}).Value(spec.Index(path, i))
 			return nil, err
 		}
-		m := timeline.Marker{ID: *w.ID, Point: p}
+		m := timeline.Marker{ID: *w.ID, Point: orb.Point{*w.Lon, *w.Lat}}
 		if w.Priority != nil {
 			m.Priority = *w.Priority
 		}
@@ -433,16 +435,15 @@ func TimelineOf(ms []timeline.Marker, got []timeline.Result) []MarkerTimeline {
 func FixesValue(ws []*Fix, path string) ([]timeline.Fix, error) {
 	out := make([]timeline.Fix, len(ws))
 	for i, w := range ws {
-		field := spec.Index(path, i)
 		switch {
 		case w == nil:
-			return nil, spec.Absent(field)
+			return nil, spec.Absent(spec.Index(path, i))
 		case w.TS == nil:
-			return nil, spec.Absent(field + ".t_s")
+			return nil, spec.Absent(spec.Index(path, i) + ".t_s")
 		case w.Lat == nil:
-			return nil, spec.Absent(field + ".lat")
+			return nil, spec.Absent(spec.Index(path, i) + ".lat")
 		case w.Lon == nil:
-			return nil, spec.Absent(field + ".lon")
+			return nil, spec.Absent(spec.Index(path, i) + ".lon")
 		}
 		out[i] = timeline.Fix{TS: *w.TS, Point: orb.Point{*w.Lon, *w.Lat}}
 	}

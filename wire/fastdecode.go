@@ -2,11 +2,12 @@ package wire
 
 import (
 	"encoding/json"
-	"strconv"
 	"sync"
 	"unicode/utf8"
 
 	"github.com/valyala/fastjson"
+
+	"github.com/viewspec/viewspec/internal/fastwire"
 )
 
 // decodeCameraFast reads the bulk of a corpus, camera requests (project,
@@ -89,7 +90,7 @@ func plainID(v *fastjson.Value) (json.RawMessage, bool) {
 	switch v.Type() {
 	case fastjson.TypeNumber:
 		s := v.String()
-		if !isJSONNumber(s) {
+		if !fastwire.IsNumber(s) {
 			return nil, false
 		}
 		return json.RawMessage(s), true
@@ -108,88 +109,6 @@ func plainID(v *fastjson.Value) (json.RawMessage, bool) {
 	return nil, false
 }
 
-// fastNumber returns a finite JSON number as the general decoder reads it
-// (strconv.ParseFloat, correctly rounded).
-func fastNumber(v *fastjson.Value) (*float64, bool) {
-	if v.Type() != fastjson.TypeNumber {
-		return nil, false
-	}
-	s := v.String()
-	if !isJSONNumber(s) {
-		return nil, false
-	}
-	f, err := strconv.ParseFloat(s, 64)
-	if err != nil {
-		return nil, false
-	}
-	return &f, true
-}
-
-// isJSONNumber reports whether s is a number by the JSON grammar
-// (RFC 8259 §6): -?(0|[1-9][0-9]*)(\.[0-9]+)?([eE][+-]?[0-9]+)?.
-func isJSONNumber(s string) bool {
-	i := 0
-	if i < len(s) && s[i] == '-' {
-		i++
-	}
-	digits := func() int {
-		n := 0
-		for i < len(s) && s[i] >= '0' && s[i] <= '9' {
-			i++
-			n++
-		}
-		return n
-	}
-	switch {
-	case i < len(s) && s[i] == '0':
-		i++
-	case digits() == 0:
-		return false
-	}
-	if i < len(s) && s[i] == '.' {
-		i++
-		if digits() == 0 {
-			return false
-		}
-	}
-	if i < len(s) && (s[i] == 'e' || s[i] == 'E') {
-		i++
-		if i < len(s) && (s[i] == '+' || s[i] == '-') {
-			i++
-		}
-		if digits() == 0 {
-			return false
-		}
-	}
-	return i == len(s)
-}
-
-// fastFields sets the numbers of an object whose keys are all among
-// names, each once; dst[i] receives names[i].
-func fastFields(v *fastjson.Value, names []string, dst []**float64) bool {
-	o, err := v.Object()
-	if err != nil {
-		return false
-	}
-	ok, seen := true, 0
-	o.Visit(func(k []byte, v *fastjson.Value) {
-		if !ok {
-			return
-		}
-		i := 0
-		for i < len(names) && names[i] != string(k) {
-			i++
-		}
-		if i == len(names) || seen&(1<<i) != 0 {
-			ok = false
-			return
-		}
-		seen |= 1 << i
-		*dst[i], ok = fastNumber(v)
-	})
-	return ok
-}
-
 var (
 	cameraKeys = []string{"lat", "lon", "heading_deg", "pitch_deg", "zoom"}
 	deviceKeys = []string{"width_px", "height_px", "fov_y_deg", "tile_px", "anchor_x", "anchor_y",
@@ -204,12 +123,8 @@ func fastCamera(v *fastjson.Value) (*Camera, bool) {
 	c := new(Camera)
 	dv := v.Get("device")
 	if dv != nil {
-		if dv.Type() != fastjson.TypeObject {
-			return nil, false
-		}
-		d := new(Device)
-		if !fastFields(dv, deviceKeys, []**float64{&d.WidthPx, &d.HeightPx, &d.FovYDeg, &d.TilePx, &d.AnchorX, &d.AnchorY,
-			&d.InsetTopPx, &d.InsetRightPx, &d.InsetBottomPx, &d.InsetLeftPx, &d.FarRatio}) {
+		d, ok := FastDevice(dv)
+		if !ok {
 			return nil, false
 		}
 		c.Device = d
@@ -218,6 +133,7 @@ func fastCamera(v *fastjson.Value) (*Camera, bool) {
 		o, _ := v.Object()
 		ok, seen, devices := true, 0, 0
 		dst := []**float64{&c.Lat, &c.Lon, &c.HeadingDeg, &c.PitchDeg, &c.Zoom}
+		store := make([]float64, len(cameraKeys))
 		o.Visit(func(k []byte, v *fastjson.Value) {
 			if !ok {
 				return
@@ -235,11 +151,12 @@ func fastCamera(v *fastjson.Value) (*Camera, bool) {
 				return
 			}
 			seen |= 1 << i
-			*dst[i], ok = fastNumber(v)
+			store[i], ok = fastwire.Float(v)
+			*dst[i] = &store[i]
 		})
 		return c, ok && devices == 1
 	}
-	return c, fastFields(v, cameraKeys, []**float64{&c.Lat, &c.Lon, &c.HeadingDeg, &c.PitchDeg, &c.Zoom})
+	return c, fastwire.Fields(v, cameraKeys, []**float64{&c.Lat, &c.Lon, &c.HeadingDeg, &c.PitchDeg, &c.Zoom}, make([]float64, len(cameraKeys)))
 }
 
 // fastPairs reads an array of objects of two numbers (points or pixels).
@@ -250,12 +167,162 @@ func fastPairs[T any](v *fastjson.Value, a, b string, mk func(a, b *float64) *T)
 	}
 	out := make([]*T, len(arr))
 	names := []string{a, b}
+	store := make([]float64, 2*len(arr))
 	for i, e := range arr {
 		var x, y *float64
-		if !fastFields(e, names, []**float64{&x, &y}) {
+		if !fastwire.Fields(e, names, []**float64{&x, &y}, store[2*i:2*i+2]) {
 			return nil, false
 		}
 		out[i] = mk(x, y)
 	}
 	return out, true
+}
+
+// The pieces below read wire objects for the hand-written readers of other
+// packages (drive-log records), under the rules of decodeCameraFast: each
+// returns false for anything the general decoder should read instead.
+
+// FastDevice reads a device object.
+func FastDevice(v *fastjson.Value) (*Device, bool) {
+	if v.Type() != fastjson.TypeObject {
+		return nil, false
+	}
+	d := new(Device)
+	return d, fastwire.Fields(v, deviceKeys, []**float64{&d.WidthPx, &d.HeightPx, &d.FovYDeg, &d.TilePx, &d.AnchorX, &d.AnchorY,
+		&d.InsetTopPx, &d.InsetRightPx, &d.InsetBottomPx, &d.InsetLeftPx, &d.FarRatio}, make([]float64, len(deviceKeys)))
+}
+
+var fixKeys = []string{"t_s", "lat", "lon"}
+
+// FastFixes reads an array of fixes.
+func FastFixes(v *fastjson.Value) ([]*Fix, bool) {
+	arr, err := v.Array()
+	if err != nil {
+		return nil, false
+	}
+	out := make([]*Fix, len(arr))
+	all := make([]Fix, len(arr))
+	store := make([]float64, 3*len(arr))
+	for i, e := range arr {
+		f := &all[i]
+		if !fastwire.Fields(e, fixKeys, []**float64{&f.TS, &f.Lat, &f.Lon}, store[3*i:3*i+3]) {
+			return nil, false
+		}
+		out[i] = f
+	}
+	return out, true
+}
+
+// FastMarkers reads an array of markers: id (a string), lat, lon and
+// priority.
+func FastMarkers(v *fastjson.Value) ([]*Marker, bool) {
+	arr, err := v.Array()
+	if err != nil {
+		return nil, false
+	}
+	out := make([]*Marker, len(arr))
+	all := make([]Marker, len(arr))
+	store := make([]float64, 3*len(arr))
+	for i, e := range arr {
+		num := store[3*i : 3*i+3]
+		o, err := e.Object()
+		if err != nil {
+			return nil, false
+		}
+		m := &all[i]
+		ok, seen := true, 0
+		o.Visit(func(k []byte, v *fastjson.Value) {
+			if !ok {
+				return
+			}
+			var bit int
+			switch string(k) {
+			case "id":
+				bit = 1
+				var id string
+				if id, ok = fastwire.String(v); ok {
+					m.ID = &id
+				}
+			case "lat":
+				bit = 2
+				num[0], ok = fastwire.Float(v)
+				m.Lat = &num[0]
+			case "lon":
+				bit = 4
+				num[1], ok = fastwire.Float(v)
+				m.Lon = &num[1]
+			case "priority":
+				bit = 8
+				num[2], ok = fastwire.Float(v)
+				m.Priority = &num[2]
+			default:
+				ok = false
+			}
+			if seen&bit != 0 {
+				ok = false
+			}
+			seen |= bit
+		})
+		if !ok {
+			return nil, false
+		}
+		out[i] = m
+	}
+	return out, true
+}
+
+// FastRoute reads a route: its points, and a speed that is a number or an
+// array of numbers (kept as compact JSON, as the general decoder keeps it
+// raw; Route.Value reads either the same).
+func FastRoute(v *fastjson.Value) (*Route, bool) {
+	o, err := v.Object()
+	if err != nil {
+		return nil, false
+	}
+	r := new(Route)
+	ok, seen := true, 0
+	o.Visit(func(k []byte, v *fastjson.Value) {
+		if !ok {
+			return
+		}
+		var bit int
+		switch string(k) {
+		case "points":
+			bit = 1
+			r.Points, ok = fastPairs(v, "lat", "lon", func(a, b *float64) *Point { return &Point{Lat: a, Lon: b} })
+		case "speed_mps":
+			bit = 2
+			r.SpeedMps, ok = fastSpeed(v)
+		default:
+			ok = false
+		}
+		if seen&bit != 0 {
+			ok = false
+		}
+		seen |= bit
+	})
+	return r, ok
+}
+
+// fastSpeed returns a number, or an array of numbers, as compact JSON.
+func fastSpeed(v *fastjson.Value) (json.RawMessage, bool) {
+	switch v.Type() {
+	case fastjson.TypeNumber:
+		s := v.String()
+		return json.RawMessage(s), fastwire.IsNumber(s)
+	case fastjson.TypeArray:
+		arr, _ := v.Array()
+		out := json.RawMessage{'['}
+		for i, e := range arr {
+			if e.Type() != fastjson.TypeNumber || !fastwire.IsNumber(e.String()) {
+				return nil, false
+			}
+			if i > 0 {
+				out = append(out, ',')
+			}
+			out = append(out, e.String()...)
+		}
+		return append(out, ']'), true
+	}
+	return nil, false
 }

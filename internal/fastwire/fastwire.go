@@ -1,0 +1,138 @@
+// Package fastwire holds the pieces of viewspec's hand-written readers of
+// the wire's bulk (camera requests, drive-log records): values taken from a
+// parsed line without reflection, each exactly as the general decoder
+// (package wire) reads it, or refused, so that the caller falls back to the
+// general decoder. Numbers follow the JSON grammar (RFC 8259 §6) and are
+// read by strconv.ParseFloat, correctly rounded; strings are taken only
+// when they hold no control character.
+package fastwire
+
+import (
+	"strconv"
+
+	"github.com/valyala/fastjson"
+)
+
+// Number returns a finite JSON number as the general decoder reads it.
+func Number(v *fastjson.Value) (*float64, bool) {
+	f, ok := Float(v)
+	if !ok {
+		return nil, false
+	}
+	return &f, true
+}
+
+// Float is Number without the pointer.
+func Float(v *fastjson.Value) (float64, bool) {
+	if v.Type() != fastjson.TypeNumber {
+		return 0, false
+	}
+	s := v.String()
+	if !IsNumber(s) {
+		return 0, false
+	}
+	f, err := strconv.ParseFloat(s, 64)
+	return f, err == nil
+}
+
+// IsNumber reports whether s is a number by the JSON grammar:
+// -?(0|[1-9][0-9]*)(\.[0-9]+)?([eE][+-]?[0-9]+)?.
+func IsNumber(s string) bool {
+	i := 0
+	if i < len(s) && s[i] == '-' {
+		i++
+	}
+	digits := func() int {
+		n := 0
+		for i < len(s) && s[i] >= '0' && s[i] <= '9' {
+			i++
+			n++
+		}
+		return n
+	}
+	switch {
+	case i < len(s) && s[i] == '0':
+		i++
+	case digits() == 0:
+		return false
+	}
+	if i < len(s) && s[i] == '.' {
+		i++
+		if digits() == 0 {
+			return false
+		}
+	}
+	if i < len(s) && (s[i] == 'e' || s[i] == 'E') {
+		i++
+		if i < len(s) && (s[i] == '+' || s[i] == '-') {
+			i++
+		}
+		if digits() == 0 {
+			return false
+		}
+	}
+	return i == len(s)
+}
+
+// String returns a JSON string's text when it holds no control character
+// (the parser cannot tell an escaped one, which is valid, from a raw one,
+// which is not); the caller must have checked the line is valid UTF-8.
+func String(v *fastjson.Value) (string, bool) {
+	if v.Type() != fastjson.TypeString {
+		return "", false
+	}
+	b := v.GetStringBytes()
+	for _, c := range b {
+		if c < 0x20 {
+			return "", false
+		}
+	}
+	return string(b), true
+}
+
+// Fields sets the numbers of an object whose keys are all among names,
+// each given once; dst[i] receives names[i] (at most 64 names), pointing
+// into store (as long as names), so that an object costs one allocation
+// or none.
+func Fields(v *fastjson.Value, names []string, dst []**float64, store []float64) bool {
+	o, err := v.Object()
+	if err != nil {
+		return false
+	}
+	ok, seen := true, uint64(0)
+	o.Visit(func(k []byte, v *fastjson.Value) {
+		if !ok {
+			return
+		}
+		i := 0
+		for i < len(names) && names[i] != string(k) {
+			i++
+		}
+		if i == len(names) || seen&(1<<i) != 0 {
+			ok = false
+			return
+		}
+		seen |= 1 << i
+		store[i], ok = Float(v)
+		*dst[i] = &store[i]
+	})
+	return ok
+}
+
+// Numbers returns an array of finite numbers.
+func Numbers(v *fastjson.Value) ([]*float64, bool) {
+	arr, err := v.Array()
+	if err != nil {
+		return nil, false
+	}
+	out := make([]*float64, len(arr))
+	store := make([]float64, len(arr))
+	for i, e := range arr {
+		var ok bool
+		if store[i], ok = Float(e); !ok {
+			return nil, false
+		}
+		out[i] = &store[i]
+	}
+	return out, true
+}
