@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+	"runtime"
 	"slices"
 	"strings"
 
@@ -29,34 +30,115 @@ type BadLine struct {
 // corpus is a problem (it proves nothing), and a line longer than
 // corpus.MaxLineBytes is one too, and validation goes on after it.
 func ValidateCorpus(r io.Reader) (problems []BadLine, n int, err error) {
-	seen := map[string]int{}
 	strict := Profiles["strict"]
-	err = corpus.EachLine(r, func(line int, b []byte, tooLong bool) error {
-		n++
-		if tooLong {
-			problems = append(problems, BadLine{Line: line, Msg: fmt.Sprintf("longer than %d bytes", corpus.MaxLineBytes)})
+	// Lines are checked on every core, in batches, and their problems
+	// gathered in order; the ids are matched in order too, kept as hashes
+	// (see idKey), so that memory stays flat.
+	type batch struct {
+		lines []int
+		texts [][]byte
+		out   []lineCheck
+		done  chan struct{}
+	}
+	quit := make(chan struct{})
+	defer close(quit)
+	work := make(chan *batch, 2)
+	order := make(chan *batch, 2+runtime.GOMAXPROCS(0))
+	readErr := make(chan error, 1)
+	go func() {
+		defer close(work)
+		defer close(order)
+		b := &batch{done: make(chan struct{})}
+		send := func() bool {
+			select {
+			case order <- b:
+			case <-quit:
+				return false
+			}
+			select {
+			case work <- b:
+			case <-quit:
+				return false
+			}
+			b = &batch{done: make(chan struct{})}
+			return true
+		}
+		err := corpus.EachLine(r, func(line int, t []byte, tooLong bool) error {
+			var text []byte
+			if !tooLong {
+				text = append([]byte(nil), t...)
+			}
+			b.lines, b.texts = append(b.lines, line), append(b.texts, text)
+			if len(b.lines) == streamBatch && !send() {
+				return io.EOF
+			}
 			return nil
+		})
+		if len(b.lines) > 0 {
+			send()
 		}
-		if p := validateLine(line, b, seen, &strict); p != nil {
-			problems = append(problems, p...)
+		if err == io.EOF {
+			err = nil
 		}
-		return nil
-	})
+		readErr <- err
+	}()
+	for range runtime.GOMAXPROCS(0) {
+		go func() {
+			for b := range work {
+				b.out = make([]lineCheck, len(b.lines))
+				for i, line := range b.lines {
+					if b.texts[i] == nil {
+						b.out[i].before = []BadLine{{Line: line, Msg: fmt.Sprintf("longer than %d bytes", corpus.MaxLineBytes)}}
+						continue
+					}
+					b.out[i] = checkLine(line, b.texts[i], &strict)
+				}
+				close(b.done)
+			}
+		}()
+	}
+	seen := map[idKey]int{}
+	for b := range order {
+		<-b.done
+		for i, lc := range b.out {
+			n++
+			problems = append(problems, lc.before...)
+			if lc.checkDup {
+				key := keyOf(lc.id)
+				if j, dup := seen[key]; dup {
+					problems = append(problems, BadLine{Line: b.lines[i], ID: lc.id, Msg: fmt.Sprintf("id repeats line %d", j)})
+				}
+				seen[key] = b.lines[i]
+			}
+			problems = append(problems, lc.after...)
+		}
+	}
+	err = <-readErr
 	if err == nil && n == 0 {
 		problems = append(problems, BadLine{Msg: "no cases: the corpus is empty"})
 	}
 	return problems, n, err
 }
 
-// validateLine checks one corpus line (see ValidateCorpus); seen holds the
-// ids met so far and their lines.
-func validateLine(line int, b []byte, seen map[string]int, strict *Profile) []BadLine {
+// lineCheck is what checking one line found: the problems before and
+// after the id's uniqueness, which is checked in order, across lines.
+type lineCheck struct {
+	before, after []BadLine
+	id            string
+	checkDup      bool
+}
+
+// checkLine checks one corpus line (see ValidateCorpus) but for the
+// uniqueness of its id.
+func checkLine(line int, b []byte, strict *Profile) (lc lineCheck) {
 	if err := corpus.ValidateLine("case", b); err != nil {
-		return []BadLine{{Line: line, Msg: "schema: " + err.Error()}}
+		lc.before = []BadLine{{Line: line, Msg: "schema: " + err.Error()}}
+		return lc
 	}
 	var c corpus.Case
 	if err := jsonv2.Unmarshal(b, &c, jsonOpts); err != nil {
-		return []BadLine{{Line: line, Msg: "case: " + err.Error()}}
+		lc.before = []BadLine{{Line: line, Msg: "case: " + err.Error()}}
+		return lc
 	}
 	// The request is read as eval reads it (keys matched exactly), so that
 	// validate refuses what eval refuses.
@@ -66,13 +148,13 @@ func validateLine(line int, b []byte, seen map[string]int, strict *Profile) []Ba
 		// expectation is the reference's error answer.
 		ans := reference.AnswerLine(c.Request, 1)
 		if st, diffs := Compare(&c, ans, strict); st != Pass {
-			return []BadLine{{Line: line, ID: c.ID, Msg: "expect is not what the reference answers now: " + describeDiffs(diffs)}}
+			lc.before = []BadLine{{Line: line, ID: c.ID, Msg: "expect is not what the reference answers now: " + describeDiffs(diffs)}}
 		}
-		return nil
+		return lc
 	}
-	var problems []BadLine
+	problems := &lc.before
 	bad := func(format string, args ...any) {
-		problems = append(problems, BadLine{Line: line, ID: c.ID, Msg: fmt.Sprintf(format, args...)})
+		*problems = append(*problems, BadLine{Line: line, ID: c.ID, Msg: fmt.Sprintf(format, args...)})
 	}
 	if req.Op != c.Op && slices.Contains(reference.Ops(), req.Op) {
 		// (A wire_errors case may name an unknown op, or none.)
@@ -81,21 +163,19 @@ func validateLine(line int, b []byte, seen map[string]int, strict *Profile) []Ba
 	if id, _ := corpus.AnswerID(c.Request); id != c.ID {
 		bad("request.id %q is not the case's id", id)
 	}
-	if j, dup := seen[c.ID]; dup {
-		bad("id repeats line %d", j)
-	}
-	seen[c.ID] = line
+	lc.id, lc.checkDup = c.ID, true
+	problems = &lc.after
 	if !slices.Contains(reference.Ops(), req.Op) {
 		// An unknown or missing op: the reference's error answer.
 		if st, diffs := Compare(&c, reference.AnswerLine(c.Request, 1), strict); st != Pass {
 			bad("expect is not what the reference answers now: %s", describeDiffs(diffs))
 		}
-		return problems
+		return lc
 	}
 	fresh, err := corpus.NewCase(c.ID, c.Family, &req)
 	if err != nil {
 		bad("the reference cannot answer it: %v", err)
-		return problems
+		return lc
 	}
 	if st, diffs := Compare(&c, fresh.Expect, strict); st != Pass {
 		bad("expect is not what the reference answers now: %s", describeDiffs(diffs))
@@ -103,7 +183,7 @@ func validateLine(line int, b []byte, seen map[string]int, strict *Profile) []Ba
 	if !jsonEqual(c.Margins, fresh.Margins) {
 		bad("margins are not the reference's")
 	}
-	return problems
+	return lc
 }
 
 func describeDiffs(ds []Diff) string {

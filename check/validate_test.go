@@ -3,7 +3,9 @@ package check_test
 import (
 	"bufio"
 	"bytes"
+	"fmt"
 	"os"
+	"runtime"
 	"strings"
 	"testing"
 
@@ -51,5 +53,44 @@ func TestValidateRefusesWhatEvalRefuses(t *testing.T) {
 	ans := reference.AnswerLine([]byte(bad[i:j]), 1)
 	if !bytes.Contains(ans, []byte(`"code":"missing_field","message":"line 1: camera: missing (required)"`)) {
 		t.Fatalf("eval answers %s", ans)
+	}
+}
+
+// TestValidateInOrderOnEveryCore: problems come in line order, a repeated
+// id is named against its first line, and the result is the same on one
+// core and on four, in batches larger than one (600 lines).
+func TestValidateInOrderOnEveryCore(t *testing.T) {
+	caseLines, _ := streamCorpus(t)
+	var lines []string
+	for len(lines) < 600 {
+		lines = append(lines, caseLines...)
+	}
+	lines = lines[:600]
+	// Ids repeat from line len(caseLines)+1 on; line 300 is no JSON.
+	lines[299] = "not json"
+	text := strings.Join(lines, "\n")
+	var results []string
+	for _, procs := range []int{1, 4} {
+		prev := runtime.GOMAXPROCS(procs)
+		problems, n, err := check.ValidateCorpus(strings.NewReader(text))
+		runtime.GOMAXPROCS(prev)
+		if err != nil || n != 600 {
+			t.Fatalf("ValidateCorpus = %d cases, %v; want 600, nil", n, err)
+		}
+		last := 0
+		for _, p := range problems {
+			if p.Line < last {
+				t.Fatalf("ValidateCorpus: problem at line %d after one at line %d", p.Line, last)
+			}
+			last = p.Line
+		}
+		first := problems[0]
+		if wantLine := len(caseLines) + 1; first.Line != wantLine || first.Msg != "id repeats line 1" {
+			t.Errorf("ValidateCorpus: first problem %+v, want line %d: id repeats line 1", first, wantLine)
+		}
+		results = append(results, fmt.Sprint(problems))
+	}
+	if results[0] != results[1] {
+		t.Errorf("ValidateCorpus on 1 core and on 4 differ:\n%s\n%s", results[0], results[1])
 	}
 }
