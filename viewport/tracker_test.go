@@ -100,3 +100,50 @@ func TestSafeDistanceWithinWrappedDistance(t *testing.T) {
 		}
 	})
 }
+
+// TestTrackerExactWhileTurning: a view that turns a little at every step,
+// either way, as a drive's heading does on a winding road, over points
+// near the user (where the turn rule lets them wait longest), gives
+// ProjectMercator's answers at every step.
+func TestTrackerExactWhileTurning(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		c := props.Camera().Draw(t, "camera")
+		if _, err := viewport.Prepare(c); err != nil {
+			t.Skip(err.Error())
+		}
+		start := viewport.ToMercator(c.User())
+		n := rapid.IntRange(1, 200).Draw(t, "points")
+		spanM := props.LogUniform(10, 5e3).Draw(t, "span_m")
+		pts := make([]viewport.Mercator, n)
+		for i := range pts {
+			pts[i] = viewport.Mercator{X: start.X + rapid.Float64Range(-1, 1).Draw(t, "dx")*spanM,
+				Y: start.Y + rapid.Float64Range(-1, 1).Draw(t, "dy")*spanM}
+		}
+		tr, bad := viewport.CheckedTracker(pts)
+		var v viewport.View
+		stepM := props.LogUniform(0.01, 30).Draw(t, "step_m")
+		turnDeg := props.LogUniform(1e-6, 15).Draw(t, "turn_deg")
+		for step := range rapid.IntRange(1, 120).Draw(t, "steps") {
+			if step > 0 {
+				u := viewport.ToMercator(c.User())
+				h := c.HeadingDeg * math.Pi / 180
+				u.X += stepM * math.Sin(h)
+				u.Y += stepM * math.Cos(h)
+				ll := u.LatLon()
+				c.LatDeg, c.LonDeg = ll[1], ll[0]
+				turn := rapid.Float64Range(-turnDeg, turnDeg).Draw(t, "turn")
+				c.HeadingDeg = math.Mod(c.HeadingDeg+turn+360, 360)
+				if rapid.IntRange(0, 19).Draw(t, "zoom_change") == 0 {
+					c.Zoom = min(30, max(0, c.Zoom+rapid.Float64Range(-0.1, 0.1).Draw(t, "zoom_step")))
+				}
+			}
+			if err := v.Place(c); err != nil {
+				t.Skip(err.Error())
+			}
+			tr.See(&v)
+		}
+		if k, i := bad(); k >= 0 {
+			t.Fatalf("step %d: the tracker's answer for point %d (%v) is not ProjectMercator's", k, i, pts[i])
+		}
+	})
+}
