@@ -80,7 +80,11 @@ func TestSameAsViewspecAudit(t *testing.T) {
 		t.Errorf("summary: %d records, %d bad, want 2000 and 1", sum.Records, sum.BadRecords)
 	}
 
-	gotRows := readRows(t, glob(t, filepath.Join(out, "labels-*-of-*.parquet")))
+	shards := glob(t, filepath.Join(out, "labels-*-of-*.parquet"))
+	if len(shards) < 2 {
+		t.Errorf("%d Parquet shards, want one per bundle, at least 2: the partials' merge went untried", len(shards))
+	}
+	gotRows := readRows(t, shards)
 	wantRows := readRows(t, []string{filepath.Join(cliOut, "labels.parquet")})
 	if len(gotRows) != len(wantRows) || len(wantRows) < 2000 {
 		t.Fatalf("pipeline's Parquet rows: %d, want viewspec audit's %d", len(gotRows), len(wantRows))
