@@ -4,10 +4,13 @@ import (
 	"bytes"
 	"compress/gzip"
 	"encoding/json"
+	"errors"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -321,5 +324,45 @@ func TestWilsonPublishedExamples(t *testing.T) {
 		if math.Abs(lo-c.lo) > 5e-5 || math.Abs(hi-c.hi) > 5e-5 {
 			t.Errorf("Wilson(%d, %d) = [%.5f, %.5f], want [%.4f, %.4f]", c.k, c.n, lo, hi, c.lo, c.hi)
 		}
+	}
+}
+
+// ReadLog gives each non-blank line with its 1-based number, trimmed; a
+// gzip log cut short ends with a bad record at the line after the last one
+// read; an error of the callback stops it and comes back unchanged.
+// Hand-made logs: "a", a blank line, " b " (lines 1 and 3).
+func TestReadLog(t *testing.T) {
+	var got []string
+	err := audit.ReadLog(strings.NewReader("a\n\n b \n"), "x.jsonl", func(l audit.LogLine) error {
+		got = append(got, fmt.Sprintf("%s:%d:%s:%v", l.File, l.Line, l.Data, l.Bad != nil))
+		return nil
+	})
+	if want := []string{"x.jsonl:1:a:false", "x.jsonl:3:b:false"}; err != nil || !slices.Equal(got, want) {
+		t.Errorf("ReadLog(plain) = %q, %v, want %q, nil", got, err, want)
+	}
+
+	var gz bytes.Buffer
+	zw := gzip.NewWriter(&gz)
+	zw.Write([]byte(strings.Repeat("{}\n", 1000)))
+	zw.Close()
+	var lines int
+	var bad *audit.BadRecord
+	err = audit.ReadLog(bytes.NewReader(gz.Bytes()[:gz.Len()-30]), "cut.jsonl.gz", func(l audit.LogLine) error {
+		if l.Bad != nil {
+			bad = l.Bad
+			return nil
+		}
+		lines++
+		return nil
+	})
+	if err != nil || bad == nil || bad.Line != lines+1 || !strings.Contains(bad.Reason, "breaks off") {
+		t.Errorf("ReadLog(cut gzip) = %v after %d lines, bad %v; want a bad record at line %d", err, lines, bad, lines+1)
+	}
+
+	stop := errors.New("stop")
+	n := 0
+	err = audit.ReadLog(strings.NewReader("a\nb\nc\n"), "x", func(audit.LogLine) error { n++; return stop })
+	if err != stop || n != 1 {
+		t.Errorf("ReadLog(callback fails) = %v after %d calls, want %v after 1", err, n, stop)
 	}
 }

@@ -7,7 +7,11 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"slices"
+	"strconv"
 	"testing"
+
+	"github.com/parquet-go/parquet-go"
 
 	"github.com/viewspec/viewspec/audit"
 	"github.com/viewspec/viewspec/demo"
@@ -101,5 +105,37 @@ func TestParquetReadByDuckDB(t *testing.T) {
 				}
 			}
 		}
+	}
+}
+
+// A table longer than RowGroupRows is written in row groups of at most
+// RowGroupRows rows (the bound NewTableWriter documents), every row kept:
+// RowGroupRows + 1 rows make two groups, of RowGroupRows and 1 rows.
+func TestTableRowGroups(t *testing.T) {
+	var pq bytes.Buffer
+	tw, err := audit.NewTableWriter(nil, &pq)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows := make([]audit.Row, audit.RowGroupRows+1)
+	for i := range rows {
+		rows[i].CandidateID = strconv.Itoa(i)
+	}
+	if err := tw.Write(rows); err != nil {
+		t.Fatal(err)
+	}
+	if err := tw.Close(); err != nil {
+		t.Fatal(err)
+	}
+	f, err := parquet.OpenFile(bytes.NewReader(pq.Bytes()), int64(pq.Len()))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got []int64
+	for _, g := range f.RowGroups() {
+		got = append(got, g.NumRows())
+	}
+	if want := []int64{audit.RowGroupRows, 1}; !slices.Equal(got, want) {
+		t.Errorf("row groups of NewTableWriter(%d rows) = %v rows, want %v", len(rows), got, want)
 	}
 }

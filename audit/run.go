@@ -68,12 +68,11 @@ func Run(files []string, opt Options) (*Totals, error) {
 	}
 	tot := NewTotals(opt.By)
 	type item struct {
-		file   string
-		line   int
-		data   []byte
-		res    *Result
-		bad    *BadRecord
-		broken bool // a read error, not a record
+		file string
+		line int
+		data []byte
+		res  *Result
+		bad  *BadRecord
 	}
 	batch := make([]item, 0, workers*batchPerWorker)
 	flush := func() error {
@@ -85,7 +84,7 @@ func Run(files []string, opt Options) (*Totals, error) {
 				for i := w; i < len(batch); i += workers {
 					it := &batch[i]
 					if it.bad == nil {
-						it.res, it.bad = auditLine(it.file, it.line, it.data, opt.Sets)
+						it.res, it.bad = AuditLine(it.file, it.line, it.data, opt.Sets)
 					}
 				}
 			}()
@@ -115,14 +114,12 @@ func Run(files []string, opt Options) (*Totals, error) {
 		if err != nil {
 			return nil, err
 		}
-		last := 0
-		err = eachRecord(f, name, opt.OnBytes, func(line int, data []byte, tooLong bool) error {
-			last = line
-			it := item{file: name, line: line, data: append([]byte(nil), data...)}
-			if tooLong {
-				it.bad = &BadRecord{File: name, Line: line, Reason: fmt.Sprintf("line longer than %d bytes", MaxRecordBytes)}
-			}
-			batch = append(batch, it)
+		var r io.Reader = f
+		if opt.OnBytes != nil {
+			r = &countingReader{r: f, fn: func(n int64) { opt.OnBytes(name, n) }}
+		}
+		err = ReadLog(r, name, func(l LogLine) error {
+			batch = append(batch, item{file: l.File, line: l.Line, data: append([]byte(nil), l.Data...), bad: l.Bad})
 			if len(batch) == cap(batch) {
 				return flush()
 			}
@@ -130,14 +127,7 @@ func Run(files []string, opt Options) (*Totals, error) {
 		})
 		f.Close()
 		if err != nil {
-			var stop stopError
-			if errors.As(err, &stop) {
-				return nil, stop.err
-			}
-			// A read error (a truncated gzip, an I/O fault): the records
-			// before it count; the break is a bad record of its own.
-			batch = append(batch, item{file: name, line: last + 1,
-				bad: &BadRecord{File: name, Line: last + 1, Reason: "the file breaks off here: " + err.Error()}})
+			return nil, err
 		}
 		if err := flush(); err != nil {
 			return nil, err
@@ -146,19 +136,56 @@ func Run(files []string, opt Options) (*Totals, error) {
 	return tot, nil
 }
 
+// LogLine is one line of a drive log as ReadLog gives it: where it is, its
+// bytes (trimmed; valid only during the call), and, when the line cannot be
+// a record, the bad record it is (Data is then empty).
+type LogLine struct {
+	File string
+	Line int
+	Data []byte
+	Bad  *BadRecord
+}
+
+// ReadLog reads one drive log from r (JSON Lines, plain or gzip: gunzipped
+// when it starts with gzip's magic bytes 1f 8b) and calls fn with each
+// non-blank line in order; file names the log in bad records. A line longer
+// than MaxRecordBytes is passed as a bad record and reading goes on; a read
+// error (a truncated gzip, an I/O fault) is passed as a bad record at the
+// line after the last one read, and ends the log: the lines before it count
+// (SPEC §9). Only an error of fn stops ReadLog and is returned.
+func ReadLog(r io.Reader, file string, fn func(LogLine) error) error {
+	last := 0
+	err := readLines(r, func(line int, data []byte, tooLong bool) error {
+		last = line
+		l := LogLine{File: file, Line: line, Data: data}
+		if tooLong {
+			l.Bad = &BadRecord{File: file, Line: line, Reason: fmt.Sprintf("line longer than %d bytes", MaxRecordBytes)}
+		}
+		if err := fn(l); err != nil {
+			return stopError{err}
+		}
+		return nil
+	})
+	if err == nil {
+		return nil
+	}
+	var stop stopError
+	if errors.As(err, &stop) {
+		return stop.err
+	}
+	return fn(LogLine{File: file, Line: last + 1,
+		Bad: &BadRecord{File: file, Line: last + 1, Reason: "the file breaks off here: " + err.Error()}})
+}
+
 // stopError carries an error of the caller's callback out of the reader,
 // apart from read errors.
 type stopError struct{ err error }
 
 func (s stopError) Error() string { return s.err.Error() }
 
-// eachRecord reads the lines of one log, gunzipping it when it starts with
+// readLines reads the lines of one log, gunzipping it when it starts with
 // gzip's magic bytes.
-func eachRecord(f *os.File, name string, onBytes func(string, int64), fn func(int, []byte, bool) error) error {
-	var r io.Reader = f
-	if onBytes != nil {
-		r = &countingReader{r: f, fn: func(n int64) { onBytes(name, n) }}
-	}
+func readLines(r io.Reader, fn func(int, []byte, bool) error) error {
 	br := bufio.NewReaderSize(r, 64<<10)
 	if magic, _ := br.Peek(2); bytes.Equal(magic, []byte{0x1f, 0x8b}) {
 		zr, err := gzip.NewReader(br)
@@ -170,12 +197,7 @@ func eachRecord(f *os.File, name string, onBytes func(string, int64), fn func(in
 	} else {
 		r = br
 	}
-	return jsonl.EachLine(r, MaxRecordBytes, func(line int, data []byte, tooLong bool) error {
-		if err := fn(line, data, tooLong); err != nil {
-			return stopError{err}
-		}
-		return nil
-	})
+	return jsonl.EachLine(r, MaxRecordBytes, fn)
 }
 
 type countingReader struct {
@@ -191,9 +213,12 @@ func (c *countingReader) Read(p []byte) (int, error) {
 	return n, err
 }
 
-// auditLine decodes and audits one line; a record that panics the audit is
-// a bad record naming the panic, never a crash.
-func auditLine(file string, line int, data []byte, sets RuleSets) (res *Result, bad *BadRecord) {
+// AuditLine decodes and audits one drive-log line, data, found at line of
+// file (for the report): the record's result, or the bad record it is,
+// naming the field. A record that panics the audit is a bad record naming
+// the panic and the request id, never a crash. Run audits every line with
+// it; an engine that spreads the lines over workers calls it the same way.
+func AuditLine(file string, line int, data []byte, sets RuleSets) (res *Result, bad *BadRecord) {
 	id := requestID(data)
 	defer func() {
 		if p := recover(); p != nil {

@@ -1,6 +1,7 @@
 package audit
 
 import (
+	"encoding/json"
 	"fmt"
 	"math"
 	"sort"
@@ -333,6 +334,17 @@ func (t *Totals) Merge(o *Totals) {
 			t.Groups[k][v].Merge(g)
 		}
 	}
+}
+
+// SummaryJSON returns s as summary.json holds it: indented JSON and a
+// newline. `viewspec audit --out` writes it; any engine that merges
+// partial totals into s writes the same bytes.
+func SummaryJSON(s *Summary) ([]byte, error) {
+	b, err := json.MarshalIndent(s, "", "  ")
+	if err != nil {
+		return nil, err
+	}
+	return append(b, '\n'), nil
 }
 
 // Summary returns the printed summary: groups sorted by tag then value,

@@ -87,8 +87,14 @@ type TableWriter struct {
 	rec []string
 }
 
+// RowGroupRows is how many rows a Parquet row group of the table holds at
+// most: the writer holds one row group in memory and writes it out when it
+// is full, so a table of any length is written in bounded memory.
+const RowGroupRows = 1 << 16
+
 // NewTableWriter writes CSV (with a header line) to csvW and Parquet
-// (zstd-compressed) to pqW; either may be nil.
+// (zstd-compressed, row groups of at most RowGroupRows rows) to pqW; either
+// may be nil.
 func NewTableWriter(csvW, pqW io.Writer) (*TableWriter, error) {
 	t := &TableWriter{}
 	if csvW != nil {
@@ -98,7 +104,7 @@ func NewTableWriter(csvW, pqW io.Writer) (*TableWriter, error) {
 		}
 	}
 	if pqW != nil {
-		t.pq = parquet.NewGenericWriter[Row](pqW, parquet.Compression(&parquet.Zstd))
+		t.pq = parquet.NewGenericWriter[Row](pqW, parquet.Compression(&parquet.Zstd), parquet.MaxRowsPerRowGroup(RowGroupRows))
 	}
 	return t, nil
 }

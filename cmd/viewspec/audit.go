@@ -281,11 +281,11 @@ func (a *auditCmd) gate(sum *audit.Summary) error {
 
 // writeOut writes summary.json, bad-records.jsonl and report.html.
 func (a *auditCmd) writeOut(sum *audit.Summary, bads []*audit.BadRecord, worst *audit.Worst, streets []render.Street, names map[string]string) error {
-	b, err := json.MarshalIndent(sum, "", "  ")
+	b, err := audit.SummaryJSON(sum)
 	if err != nil {
 		return err
 	}
-	if err := atomicfile.WriteBytes(filepath.Join(a.out, "summary.json"), append(b, '\n')); err != nil {
+	if err := atomicfile.WriteBytes(filepath.Join(a.out, "summary.json"), b); err != nil {
 		return err
 	}
 	var bl []byte
