@@ -159,16 +159,39 @@ func (cd *caseDecoder) parse(b []byte, c *Case) bool {
 	line := append([]byte(nil), b...)
 	cd.r.Reset(line)
 	d := cd.d
-	d.Reset(&cd.r)
+	// Repeated keys are found below, at the top level, where they matter:
+	// the token reader need not keep every object's names.
+	d.Reset(&cd.r, jsontext.AllowDuplicateNames(true))
 	if t, err := d.ReadToken(); err != nil || t.Kind() != '{' {
 		return false
 	}
+	seen := 0
 	for d.PeekKind() == '"' {
-		name, err := d.ReadToken()
+		name, err := d.ReadValue()
 		if err != nil {
 			return false
 		}
-		key := name.String()
+		// The name as written: one with escapes matches no case below and
+		// is left to the general decoder.
+		key, bit := "", 0
+		switch string(name) {
+		case `"id"`:
+			key, bit = "id", 1
+		case `"family"`:
+			key, bit = "family", 2
+		case `"op"`:
+			key, bit = "op", 4
+		case `"request"`:
+			key, bit = "request", 8
+		case `"expect"`:
+			key, bit = "expect", 16
+		case `"margins"`:
+			key, bit = "margins", 32
+		}
+		if seen&bit != 0 {
+			return false
+		}
+		seen |= bit
 		switch key {
 		case "id":
 			t, err := d.ReadToken()
