@@ -2,7 +2,6 @@ package audit
 
 import (
 	"sync"
-	"unicode/utf8"
 
 	"github.com/valyala/fastjson"
 
@@ -16,7 +15,7 @@ import (
 // general decoder then reads, so that both give the same record (a test
 // holds them together on the demo fleet and under fuzzing).
 func decodeRecordFast(line []byte, w *wireRecord) bool {
-	if !utf8.Valid(line) {
+	if !fastwire.Plain(line) {
 		return false
 	}
 	p := recordParsers.Get().(*fastjson.Parser)
@@ -25,64 +24,38 @@ func decodeRecordFast(line []byte, w *wireRecord) bool {
 	if err != nil {
 		return false
 	}
-	o, err := v.Object()
-	if err != nil {
-		return false
-	}
 	var r wireRecord
-	ok, seen := true, 0
-	o.Visit(func(k []byte, v *fastjson.Value) {
-		if !ok {
-			return
-		}
-		var bit int
-		switch string(k) {
+	ok := fastwire.Object(v, recordKeys, func(i int, v *fastjson.Value) bool {
+		var ok bool
+		switch recordKeys[i] {
 		case "request_id":
-			bit = 1 << 0
 			r.RequestID, ok = fastString(v)
 		case "tags":
-			bit = 1 << 1
 			r.Tags, ok = fastTags(v)
 		case "device":
-			bit = 1 << 2
 			r.Device, ok = wire.FastDevice(v)
 		case "rules_ref":
-			bit = 1 << 3
 			r.RulesRef, ok = fastString(v)
 		case "cap":
-			bit = 1 << 4
 			r.Cap, ok = fastwire.Number(v)
 		case "horizon_s":
-			bit = 1 << 5
 			r.HorizonS, ok = fastwire.Number(v)
 		case "tick_s":
-			bit = 1 << 6
 			r.TickS, ok = fastwire.Number(v)
 		case "bucket_edges_s":
-			bit = 1 << 7
 			r.BucketEdgesS, ok = fastwire.Numbers(v)
 		case "trace":
-			bit = 1 << 8
 			r.Trace, ok = wire.FastFixes(v)
 		case "route":
-			bit = 1 << 9
 			r.Route, ok = wire.FastRoute(v)
 		case "candidates":
-			bit = 1 << 10
 			r.Candidates, ok = wire.FastMarkers(v)
 		case "shown":
-			bit = 1 << 11
 			r.Shown, ok = fastShown(v)
 		case "predicted":
-			bit = 1 << 12
 			r.Predicted, ok = fastPredicted(v)
-		default:
-			ok = false
 		}
-		if seen&bit != 0 {
-			ok = false
-		}
-		seen |= bit
+		return ok
 	})
 	if ok {
 		*w = r
@@ -90,7 +63,14 @@ func decodeRecordFast(line []byte, w *wireRecord) bool {
 	return ok
 }
 
-var recordParsers = sync.Pool{New: func() any { return new(fastjson.Parser) }}
+var (
+	recordKeys = []string{"request_id", "tags", "device", "rules_ref", "cap", "horizon_s", "tick_s",
+		"bucket_edges_s", "trace", "route", "candidates", "shown", "predicted"}
+	shownKeys     = []string{"id", "first_shown_s", "shown_s", "intervals_s"}
+	predictedKeys = []string{"id", "p"}
+
+	recordParsers = sync.Pool{New: func() any { return new(fastjson.Parser) }}
+)
 
 func fastString(v *fastjson.Value) (*string, bool) {
 	s, ok := fastwire.String(v)
@@ -125,53 +105,41 @@ func fastTags(v *fastjson.Value) (map[string]string, bool) {
 	return tags, ok
 }
 
-// fastShown reads the display log.
-func fastShown(v *fastjson.Value) ([]*wireShown, bool) {
+// fastArray reads an array of objects, each by read into its own T.
+func fastArray[T any](v *fastjson.Value, read func(e *fastjson.Value, t *T) bool) ([]*T, bool) {
 	arr, err := v.Array()
 	if err != nil {
 		return nil, false
 	}
-	out := make([]*wireShown, len(arr))
-	all := make([]wireShown, len(arr))
+	out := make([]*T, len(arr))
+	all := make([]T, len(arr))
 	for i, e := range arr {
-		o, err := e.Object()
-		if err != nil {
+		if !read(e, &all[i]) {
 			return nil, false
 		}
-		s := &all[i]
-		ok, seen := true, 0
-		o.Visit(func(k []byte, v *fastjson.Value) {
-			if !ok {
-				return
-			}
-			var bit int
-			switch string(k) {
-			case "id":
-				bit = 1
-				s.ID, ok = fastString(v)
-			case "first_shown_s":
-				bit = 2
-				s.FirstShownS, ok = fastwire.Number(v)
-			case "shown_s":
-				bit = 4
-				s.ShownS, ok = fastwire.Number(v)
-			case "intervals_s":
-				bit = 8
-				s.IntervalsS, ok = fastIntervals(v)
-			default:
-				ok = false
-			}
-			if seen&bit != 0 {
-				ok = false
-			}
-			seen |= bit
-		})
-		if !ok {
-			return nil, false
-		}
-		out[i] = s
+		out[i] = &all[i]
 	}
 	return out, true
+}
+
+// fastShown reads the display log.
+func fastShown(v *fastjson.Value) ([]*wireShown, bool) {
+	return fastArray(v, func(e *fastjson.Value, s *wireShown) bool {
+		return fastwire.Object(e, shownKeys, func(i int, v *fastjson.Value) bool {
+			var ok bool
+			switch i {
+			case 0:
+				s.ID, ok = fastString(v)
+			case 1:
+				s.FirstShownS, ok = fastwire.Number(v)
+			case 2:
+				s.ShownS, ok = fastwire.Number(v)
+			default:
+				s.IntervalsS, ok = fastIntervals(v)
+			}
+			return ok
+		})
+	})
 }
 
 // fastIntervals reads an array of arrays of numbers.
@@ -192,43 +160,15 @@ func fastIntervals(v *fastjson.Value) ([][]*float64, bool) {
 
 // fastPredicted reads the predictions.
 func fastPredicted(v *fastjson.Value) ([]*wirePrediction, bool) {
-	arr, err := v.Array()
-	if err != nil {
-		return nil, false
-	}
-	out := make([]*wirePrediction, len(arr))
-	all := make([]wirePrediction, len(arr))
-	for i, e := range arr {
-		o, err := e.Object()
-		if err != nil {
-			return nil, false
-		}
-		p := &all[i]
-		ok, seen := true, 0
-		o.Visit(func(k []byte, v *fastjson.Value) {
-			if !ok {
-				return
-			}
-			var bit int
-			switch string(k) {
-			case "id":
-				bit = 1
+	return fastArray(v, func(e *fastjson.Value, p *wirePrediction) bool {
+		return fastwire.Object(e, predictedKeys, func(i int, v *fastjson.Value) bool {
+			var ok bool
+			if i == 0 {
 				p.ID, ok = fastString(v)
-			case "p":
-				bit = 2
+			} else {
 				p.P, ok = fastwire.Numbers(v)
-			default:
-				ok = false
 			}
-			if seen&bit != 0 {
-				ok = false
-			}
-			seen |= bit
+			return ok
 		})
-		if !ok {
-			return nil, false
-		}
-		out[i] = p
-	}
-	return out, true
+	})
 }

@@ -6,16 +6,15 @@ import (
 	"fmt"
 	"hash/maphash"
 	"io"
-	"runtime"
 	"slices"
-	"sync"
 
 	"github.com/viewspec/viewspec/corpus"
+	"github.com/viewspec/viewspec/internal/ordered"
 	"github.com/viewspec/viewspec/spec"
 )
 
-// streamBatch is how many lines a reader parses, or pairs a worker
-// compares, at a time.
+// streamBatch is how many lines a reader parses, or cases a worker
+// compares or validates, at a time.
 const streamBatch = 256
 
 // CheckStreams reads a corpus and an implementation's answers side by
@@ -41,40 +40,27 @@ func CheckStreams(corpusName string, cases io.Reader, answersName string, answer
 	m := matcher{
 		ck: ck, corpusName: corpusName, seen: map[idKey]caseState{},
 		pendingCases: map[string]pendingCase{}, pendingAnswers: map[string]corpus.Answer{},
-		work: make(chan *pairBatch, 2), order: make(chan *pairBatch, 2+runtime.GOMAXPROCS(0)),
 	}
-	var workers sync.WaitGroup
-	for range runtime.GOMAXPROCS(0) {
-		workers.Go(func() {
-			for b := range m.work {
-				for i := range b.cases {
-					b.res[i] = compareCase(&b.cases[i], b.got[i], &ck.p)
-				}
-				close(b.done)
-			}
-		})
-	}
-	recorded := make(chan struct{})
-	go func() {
-		defer close(recorded)
-		for b := range m.order {
-			<-b.done
-			for i := range b.cases {
-				ck.add(&b.cases[i], b.res[i])
-			}
-		}
-	}()
-	err := m.run(caseCh, ansCh)
-	m.flush()
-	close(m.work)
-	close(m.order)
-	workers.Wait()
-	<-recorded
+	err := ordered.Map(streamBatch, func(emit func(casePair) bool) error {
+		m.emit = emit
+		return m.run(caseCh, ansCh)
+	}, func(p casePair) CaseResult {
+		return compareCase(&p.c, p.got, &ck.p)
+	}, func(p casePair, res CaseResult) error {
+		ck.add(&p.c, res)
+		return nil
+	})
 	if err != nil {
 		return err
 	}
 	m.finish()
 	return nil
+}
+
+// casePair is a case and the answer matched to it.
+type casePair struct {
+	c   corpus.Case
+	got json.RawMessage
 }
 
 // caseItem is one corpus line read: a case, or the error that ends the
@@ -171,15 +157,6 @@ func readAnswers(name string, r io.Reader, out chan<- []answerItem, quit <-chan 
 	}
 }
 
-// pairBatch is matched cases and answers on their way to a worker and to
-// the recorder.
-type pairBatch struct {
-	cases []corpus.Case
-	got   []json.RawMessage
-	res   []CaseResult
-	done  chan struct{}
-}
-
 // caseState is what the matcher knows of a corpus id: the case's line, and
 // whether its answer came.
 type caseState struct {
@@ -218,8 +195,7 @@ type matcher struct {
 	pendingCases   map[string]pendingCase
 	pendingAnswers map[string]corpus.Answer
 	seq            int
-	batch          *pairBatch
-	work, order    chan *pairBatch
+	emit           func(casePair) bool // to the comparison, in order
 }
 
 // run reads one case and one answer at a time until both streams end, or
@@ -297,29 +273,9 @@ func (m *matcher) addAnswer(it answerItem) {
 	}
 }
 
-// dispatch queues a matched pair; full batches go to a worker and, in
-// order, to the recorder.
+// dispatch hands a matched pair on to be compared and recorded.
 func (m *matcher) dispatch(c corpus.Case, got json.RawMessage) {
-	if m.batch == nil {
-		m.batch = &pairBatch{cases: make([]corpus.Case, 0, streamBatch), got: make([]json.RawMessage, 0, streamBatch)}
-	}
-	m.batch.cases = append(m.batch.cases, c)
-	m.batch.got = append(m.batch.got, got)
-	if len(m.batch.cases) == streamBatch {
-		m.flush()
-	}
-}
-
-func (m *matcher) flush() {
-	b := m.batch
-	if b == nil || len(b.cases) == 0 {
-		return
-	}
-	m.batch = nil
-	b.res = make([]CaseResult, len(b.cases))
-	b.done = make(chan struct{})
-	m.order <- b
-	m.work <- b
+	m.emit(casePair{c, got})
 }
 
 // finish records the cases left without an answer (in corpus order) and

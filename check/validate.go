@@ -5,13 +5,13 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
-	"runtime"
 	"slices"
 	"strings"
 
 	jsonv2 "github.com/go-json-experiment/json"
 
 	"github.com/viewspec/viewspec/corpus"
+	"github.com/viewspec/viewspec/internal/ordered"
 	"github.com/viewspec/viewspec/reference"
 	"github.com/viewspec/viewspec/wire"
 )
@@ -31,89 +31,41 @@ type BadLine struct {
 // corpus.MaxLineBytes is one too, and validation goes on after it.
 func ValidateCorpus(r io.Reader) (problems []BadLine, n int, err error) {
 	strict := Profiles["strict"]
-	// Lines are checked on every core, in batches, and their problems
-	// gathered in order; the ids are matched in order too, kept as hashes
-	// (see idKey), so that memory stays flat.
-	type batch struct {
-		lines []int
-		texts [][]byte
-		out   []lineCheck
-		done  chan struct{}
+	// Lines are checked on every core and their problems gathered in
+	// order; the ids are matched in order too, kept as hashes (see idKey),
+	// so that memory stays flat.
+	type textLine struct {
+		line int
+		text []byte // nil for a line too long
 	}
-	quit := make(chan struct{})
-	defer close(quit)
-	work := make(chan *batch, 2)
-	order := make(chan *batch, 2+runtime.GOMAXPROCS(0))
-	readErr := make(chan error, 1)
-	go func() {
-		defer close(work)
-		defer close(order)
-		b := &batch{done: make(chan struct{})}
-		send := func() bool {
-			select {
-			case order <- b:
-			case <-quit:
-				return false
-			}
-			select {
-			case work <- b:
-			case <-quit:
-				return false
-			}
-			b = &batch{done: make(chan struct{})}
-			return true
-		}
-		err := corpus.EachLine(r, func(line int, t []byte, tooLong bool) error {
+	seen := map[idKey]int{}
+	err = ordered.Map(streamBatch, func(emit func(textLine) bool) error {
+		return corpus.EachLine(r, func(line int, t []byte, tooLong bool) error {
 			var text []byte
 			if !tooLong {
 				text = append([]byte(nil), t...)
 			}
-			b.lines, b.texts = append(b.lines, line), append(b.texts, text)
-			if len(b.lines) == streamBatch && !send() {
-				return io.EOF
-			}
+			emit(textLine{line, text})
 			return nil
 		})
-		if len(b.lines) > 0 {
-			send()
+	}, func(tl textLine) lineCheck {
+		if tl.text == nil {
+			return lineCheck{before: []BadLine{{Line: tl.line, Msg: fmt.Sprintf("longer than %d bytes", corpus.MaxLineBytes)}}}
 		}
-		if err == io.EOF {
-			err = nil
-		}
-		readErr <- err
-	}()
-	for range runtime.GOMAXPROCS(0) {
-		go func() {
-			for b := range work {
-				b.out = make([]lineCheck, len(b.lines))
-				for i, line := range b.lines {
-					if b.texts[i] == nil {
-						b.out[i].before = []BadLine{{Line: line, Msg: fmt.Sprintf("longer than %d bytes", corpus.MaxLineBytes)}}
-						continue
-					}
-					b.out[i] = checkLine(line, b.texts[i], &strict)
-				}
-				close(b.done)
+		return checkLine(tl.line, tl.text, &strict)
+	}, func(tl textLine, lc lineCheck) error {
+		n++
+		problems = append(problems, lc.before...)
+		if lc.checkDup {
+			key := keyOf(lc.id)
+			if j, dup := seen[key]; dup {
+				problems = append(problems, BadLine{Line: tl.line, ID: lc.id, Msg: fmt.Sprintf("id repeats line %d", j)})
 			}
-		}()
-	}
-	seen := map[idKey]int{}
-	for b := range order {
-		<-b.done
-		for i, lc := range b.out {
-			n++
-			problems = append(problems, lc.before...)
-			if lc.checkDup {
-				key := keyOf(lc.id)
-				if j, dup := seen[key]; dup {
-					problems = append(problems, BadLine{Line: b.lines[i], ID: lc.id, Msg: fmt.Sprintf("id repeats line %d", j)})
-				}
-				seen[key] = b.lines[i]
-			}
-			problems = append(problems, lc.after...)
+			seen[key] = tl.line
 		}
-	}
-	err = <-readErr
+		problems = append(problems, lc.after...)
+		return nil
+	})
 	if err == nil && n == 0 {
 		problems = append(problems, BadLine{Msg: "no cases: the corpus is empty"})
 	}

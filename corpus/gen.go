@@ -8,10 +8,10 @@ import (
 	"io"
 	"math"
 	"math/rand/v2"
-	"runtime"
 	"strconv"
 	"strings"
 
+	"github.com/viewspec/viewspec/internal/ordered"
 	"github.com/viewspec/viewspec/props"
 	"github.com/viewspec/viewspec/reference"
 	"github.com/viewspec/viewspec/spec"
@@ -34,29 +34,9 @@ func Generate(w io.Writer, seed uint64, count int, only map[string]bool) (int, e
 		}
 	}
 	// Each case has a random source of its own (caseRand), so cases are
-	// made on every core, in batches, and written in order.
-	quit := make(chan struct{})
-	defer close(quit)
-	work := make(chan *genBatch, 4)
-	order := make(chan *genBatch, 4+runtime.GOMAXPROCS(0))
-	go func() {
-		defer close(work)
-		defer close(order)
-		b := &genBatch{done: make(chan struct{})}
-		send := func() bool {
-			select {
-			case order <- b:
-			case <-quit:
-				return false
-			}
-			select {
-			case work <- b:
-			case <-quit:
-				return false
-			}
-			b = &genBatch{done: make(chan struct{})}
-			return true
-		}
+	// made on every core and written in order.
+	n := 0
+	err := ordered.Map(genBatchSize, func(emit func(genJob) bool) error {
 		for _, p := range props.Plans() {
 			if only != nil && !only[p.Op] {
 				continue
@@ -64,36 +44,31 @@ func Generate(w io.Writer, seed uint64, count int, only map[string]bool) (int, e
 			per := max(1, int(math.Round(float64(count)*p.Weight/total/float64(len(p.Families)))))
 			for _, fam := range p.Families {
 				for k := range per {
-					b.jobs = append(b.jobs, genJob{p.Op, fam, k})
-					if len(b.jobs) == genBatchSize && !send() {
-						return
+					if !emit(genJob{p.Op, fam, k}) {
+						return nil
 					}
 				}
 			}
 		}
-		if len(b.jobs) > 0 {
-			send()
+		return nil
+	}, func(j genJob) genLine {
+		c, err := genCase(seed, j.op, j.fam, j.k)
+		if err != nil {
+			return genLine{err: err}
 		}
-	}()
-	for range runtime.GOMAXPROCS(0) {
-		go func() {
-			for b := range work {
-				b.make(seed)
-			}
-		}()
-	}
-	n := 0
-	for b := range order {
-		<-b.done
-		if b.err != nil {
-			return n, b.err
+		line, err := appendCase(nil, c)
+		return genLine{line, err}
+	}, func(_ genJob, l genLine) error {
+		if l.err != nil {
+			return l.err
 		}
-		if _, err := w.Write(b.out); err != nil {
-			return n, err
+		if _, err := w.Write(l.line); err != nil {
+			return err
 		}
-		n += len(b.jobs)
-	}
-	return n, nil
+		n++
+		return nil
+	})
+	return n, err
 }
 
 // genBatchSize is how many cases one worker makes at a time.
@@ -106,27 +81,10 @@ type genJob struct {
 	k   int
 }
 
-// genBatch is cases made together, their lines in order.
-type genBatch struct {
-	jobs []genJob
-	out  []byte
+// genLine is a case made: its line, or why it could not be.
+type genLine struct {
+	line []byte
 	err  error
-	done chan struct{}
-}
-
-// make makes the batch's cases, stopping at the first error.
-func (b *genBatch) make(seed uint64) {
-	defer close(b.done)
-	for _, j := range b.jobs {
-		c, err := genCase(seed, j.op, j.fam, j.k)
-		if err == nil {
-			b.out, err = appendCase(b.out, c)
-		}
-		if err != nil {
-			b.err = err
-			return
-		}
-	}
 }
 
 // caseRand is the random source of one case: the seed and a hash of the

@@ -3,7 +3,6 @@ package wire
 import (
 	"encoding/json"
 	"sync"
-	"unicode/utf8"
 
 	"github.com/valyala/fastjson"
 
@@ -18,7 +17,7 @@ import (
 // both give the same request (a test holds them together on the default
 // corpus and under fuzzing).
 func decodeCameraFast(line []byte, req *Request) bool {
-	if !utf8.Valid(line) {
+	if !fastwire.Plain(line) {
 		return false
 	}
 	p := fastParsers.Get().(*fastjson.Parser)
@@ -27,52 +26,35 @@ func decodeCameraFast(line []byte, req *Request) bool {
 	if err != nil {
 		return false
 	}
-	o, err := v.Object()
-	if err != nil {
-		return false
-	}
 	var r Request
-	ok, seen := true, 0
-	o.Visit(func(k []byte, v *fastjson.Value) {
-		if !ok {
-			return
-		}
-		var bit int
-		switch string(k) {
-		case "op":
-			bit = 1
-			ok = v.Type() == fastjson.TypeString
-			r.Op = string(v.GetStringBytes())
-		case "id":
-			bit = 2
+	seen := 0
+	ok := fastwire.Object(v, requestKeys, func(i int, v *fastjson.Value) bool {
+		seen |= 1 << i
+		var ok bool
+		switch i {
+		case 0:
+			r.Op, ok = fastwire.String(v)
+		case 1:
 			r.ID, ok = plainID(v)
-		case "camera":
-			bit = 4
+		case 2:
 			r.Camera, ok = fastCamera(v)
-		case "points":
-			bit = 8
-			r.Points, ok = fastPairs(v, "lat", "lon", func(a, b *float64) *Point { return &Point{Lat: a, Lon: b} })
-		case "pixels":
-			bit = 16
-			r.Pixels, ok = fastPairs(v, "x", "y", func(a, b *float64) *Pixel { return &Pixel{X: a, Y: b} })
-		default:
-			ok = false
+		case 3:
+			r.Points, ok = fastPairs(v, pointKeys, func(a, b *float64) *Point { return &Point{Lat: a, Lon: b} })
+		case 4:
+			r.Pixels, ok = fastPairs(v, pixelKeys, func(a, b *float64) *Pixel { return &Pixel{X: a, Y: b} })
 		}
-		if seen&bit != 0 {
-			ok = false
-		}
-		seen |= bit
+		return ok
 	})
 	if !ok {
 		return false
 	}
 	switch r.Op {
 	case "project":
-		ok = seen&16 == 0
+		ok = seen&(1<<4) == 0
 	case "unproject":
-		ok = seen&8 == 0
+		ok = seen&(1<<3) == 0
 	case "footprint", "horizon":
-		ok = seen&(8|16) == 0
+		ok = seen&(1<<3|1<<4) == 0
 	default:
 		ok = false
 	}
@@ -110,63 +92,40 @@ func plainID(v *fastjson.Value) (json.RawMessage, bool) {
 }
 
 var (
-	cameraKeys = []string{"lat", "lon", "heading_deg", "pitch_deg", "zoom"}
-	deviceKeys = []string{"width_px", "height_px", "fov_y_deg", "tile_px", "anchor_x", "anchor_y",
+	requestKeys = []string{"op", "id", "camera", "points", "pixels"}
+	pointKeys   = []string{"lat", "lon"}
+	pixelKeys   = []string{"x", "y"}
+	cameraKeys  = []string{"lat", "lon", "heading_deg", "pitch_deg", "zoom", "device"}
+	deviceKeys  = []string{"width_px", "height_px", "fov_y_deg", "tile_px", "anchor_x", "anchor_y",
 		"inset_top_px", "inset_right_px", "inset_bottom_px", "inset_left_px", "far_ratio"}
 )
 
 // fastCamera reads a camera object and its device.
 func fastCamera(v *fastjson.Value) (*Camera, bool) {
-	if v.Type() != fastjson.TypeObject {
-		return nil, false
-	}
 	c := new(Camera)
-	dv := v.Get("device")
-	if dv != nil {
-		d, ok := FastDevice(dv)
-		if !ok {
-			return nil, false
+	dst := []**float64{&c.Lat, &c.Lon, &c.HeadingDeg, &c.PitchDeg, &c.Zoom}
+	store := make([]float64, len(cameraKeys)-1)
+	ok := fastwire.Object(v, cameraKeys, func(i int, v *fastjson.Value) bool {
+		if i == len(cameraKeys)-1 {
+			var ok bool
+			c.Device, ok = FastDevice(v)
+			return ok
 		}
-		c.Device = d
-		// Read the rest without the device: fastFields refuses unknown
-		// keys, so the camera's keys are checked here, the device once.
-		o, _ := v.Object()
-		ok, seen, devices := true, 0, 0
-		dst := []**float64{&c.Lat, &c.Lon, &c.HeadingDeg, &c.PitchDeg, &c.Zoom}
-		store := make([]float64, len(cameraKeys))
-		o.Visit(func(k []byte, v *fastjson.Value) {
-			if !ok {
-				return
-			}
-			if string(k) == "device" {
-				devices++
-				return
-			}
-			i := 0
-			for i < len(cameraKeys) && cameraKeys[i] != string(k) {
-				i++
-			}
-			if i == len(cameraKeys) || seen&(1<<i) != 0 {
-				ok = false
-				return
-			}
-			seen |= 1 << i
-			store[i], ok = fastwire.Float(v)
-			*dst[i] = &store[i]
-		})
-		return c, ok && devices == 1
-	}
-	return c, fastwire.Fields(v, cameraKeys, []**float64{&c.Lat, &c.Lon, &c.HeadingDeg, &c.PitchDeg, &c.Zoom}, make([]float64, len(cameraKeys)))
+		var ok bool
+		store[i], ok = fastwire.Float(v)
+		*dst[i] = &store[i]
+		return ok
+	})
+	return c, ok
 }
 
 // fastPairs reads an array of objects of two numbers (points or pixels).
-func fastPairs[T any](v *fastjson.Value, a, b string, mk func(a, b *float64) *T) ([]*T, bool) {
+func fastPairs[T any](v *fastjson.Value, names []string, mk func(a, b *float64) *T) ([]*T, bool) {
 	arr, err := v.Array()
 	if err != nil {
 		return nil, false
 	}
 	out := make([]*T, len(arr))
-	names := []string{a, b}
 	store := make([]float64, 2*len(arr))
 	for i, e := range arr {
 		var x, y *float64
@@ -184,15 +143,16 @@ func fastPairs[T any](v *fastjson.Value, a, b string, mk func(a, b *float64) *T)
 
 // FastDevice reads a device object.
 func FastDevice(v *fastjson.Value) (*Device, bool) {
-	if v.Type() != fastjson.TypeObject {
-		return nil, false
-	}
 	d := new(Device)
 	return d, fastwire.Fields(v, deviceKeys, []**float64{&d.WidthPx, &d.HeightPx, &d.FovYDeg, &d.TilePx, &d.AnchorX, &d.AnchorY,
 		&d.InsetTopPx, &d.InsetRightPx, &d.InsetBottomPx, &d.InsetLeftPx, &d.FarRatio}, make([]float64, len(deviceKeys)))
 }
 
-var fixKeys = []string{"t_s", "lat", "lon"}
+var (
+	fixKeys    = []string{"t_s", "lat", "lon"}
+	markerKeys = []string{"id", "lat", "lon", "priority"}
+	routeKeys  = []string{"points", "speed_mps"}
+)
 
 // FastFixes reads an array of fixes.
 func FastFixes(v *fastjson.Value) ([]*Fix, bool) {
@@ -224,44 +184,25 @@ func FastMarkers(v *fastjson.Value) ([]*Marker, bool) {
 	all := make([]Marker, len(arr))
 	store := make([]float64, 3*len(arr))
 	for i, e := range arr {
-		num := store[3*i : 3*i+3]
-		o, err := e.Object()
-		if err != nil {
-			return nil, false
-		}
 		m := &all[i]
-		ok, seen := true, 0
-		o.Visit(func(k []byte, v *fastjson.Value) {
-			if !ok {
-				return
+		num := store[3*i : 3*i+3]
+		ok := fastwire.Object(e, markerKeys, func(k int, v *fastjson.Value) bool {
+			if k == 0 {
+				id, ok := fastwire.String(v)
+				m.ID = &id
+				return ok
 			}
-			var bit int
-			switch string(k) {
-			case "id":
-				bit = 1
-				var id string
-				if id, ok = fastwire.String(v); ok {
-					m.ID = &id
-				}
-			case "lat":
-				bit = 2
-				num[0], ok = fastwire.Float(v)
+			var ok bool
+			num[k-1], ok = fastwire.Float(v)
+			switch k {
+			case 1:
 				m.Lat = &num[0]
-			case "lon":
-				bit = 4
-				num[1], ok = fastwire.Float(v)
+			case 2:
 				m.Lon = &num[1]
-			case "priority":
-				bit = 8
-				num[2], ok = fastwire.Float(v)
-				m.Priority = &num[2]
 			default:
-				ok = false
+				m.Priority = &num[2]
 			}
-			if seen&bit != 0 {
-				ok = false
-			}
-			seen |= bit
+			return ok
 		})
 		if !ok {
 			return nil, false
@@ -275,31 +216,15 @@ func FastMarkers(v *fastjson.Value) ([]*Marker, bool) {
 // array of numbers (kept as compact JSON, as the general decoder keeps it
 // raw; Route.Value reads either the same).
 func FastRoute(v *fastjson.Value) (*Route, bool) {
-	o, err := v.Object()
-	if err != nil {
-		return nil, false
-	}
 	r := new(Route)
-	ok, seen := true, 0
-	o.Visit(func(k []byte, v *fastjson.Value) {
-		if !ok {
-			return
-		}
-		var bit int
-		switch string(k) {
-		case "points":
-			bit = 1
-			r.Points, ok = fastPairs(v, "lat", "lon", func(a, b *float64) *Point { return &Point{Lat: a, Lon: b} })
-		case "speed_mps":
-			bit = 2
+	ok := fastwire.Object(v, routeKeys, func(i int, v *fastjson.Value) bool {
+		var ok bool
+		if i == 0 {
+			r.Points, ok = fastPairs(v, pointKeys, func(a, b *float64) *Point { return &Point{Lat: a, Lon: b} })
+		} else {
 			r.SpeedMps, ok = fastSpeed(v)
-		default:
-			ok = false
 		}
-		if seen&bit != 0 {
-			ok = false
-		}
-		seen |= bit
+		return ok
 	})
 	return r, ok
 }

@@ -71,6 +71,8 @@ func FuzzFastCameraDecoder(f *testing.F) {
 		`{"op":"project","points":[{"lat":1e999,"lon":2}]}`,
 		`{"op":"project","points":[],"points":[]}`,
 		`{"op":"project","id":null,"points":[null]}`,
+		`{"op":"horizon","id":"\0","camera":{"lat":1}}`,
+		`{"op":"horizon","id":"\ud800","camera":{"lat":1}}`,
 	} {
 		f.Add([]byte(s))
 	}

@@ -8,10 +8,21 @@
 package fastwire
 
 import (
+	"bytes"
 	"strconv"
+	"unicode/utf8"
 
 	"github.com/valyala/fastjson"
 )
+
+// Plain reports whether a line is one the hand-written readers may take:
+// valid UTF-8 without a backslash. The parser they use is laxer than the
+// general decoder about escapes (it keeps an invalid one, a lone
+// surrogate), and the usual line has none, so any escape sends the whole
+// line to the general decoder.
+func Plain(line []byte) bool {
+	return utf8.Valid(line) && bytes.IndexByte(line, '\\') < 0
+}
 
 // Number returns a finite JSON number as the general decoder reads it.
 func Number(v *fastjson.Value) (*float64, bool) {
@@ -75,8 +86,8 @@ func IsNumber(s string) bool {
 }
 
 // String returns a JSON string's text when it holds no control character
-// (the parser cannot tell an escaped one, which is valid, from a raw one,
-// which is not); the caller must have checked the line is valid UTF-8.
+// (which the general decoder refuses raw); the caller must have checked
+// the line with Plain.
 func String(v *fastjson.Value) (string, bool) {
 	if v.Type() != fastjson.TypeString {
 		return "", false
@@ -90,11 +101,11 @@ func String(v *fastjson.Value) (string, bool) {
 	return string(b), true
 }
 
-// Fields sets the numbers of an object whose keys are all among names,
-// each given once; dst[i] receives names[i] (at most 64 names), pointing
-// into store (as long as names), so that an object costs one allocation
-// or none.
-func Fields(v *fastjson.Value, names []string, dst []**float64, store []float64) bool {
+// Object calls fn with the index in names of each key of the object v
+// and its value, in the line's order; it reports false when v is not an
+// object, a key is not among names (spelt exactly) or repeats, or fn
+// reports false (at most 64 names).
+func Object(v *fastjson.Value, names []string, fn func(i int, v *fastjson.Value) bool) bool {
 	o, err := v.Object()
 	if err != nil {
 		return false
@@ -113,10 +124,21 @@ func Fields(v *fastjson.Value, names []string, dst []**float64, store []float64)
 			return
 		}
 		seen |= 1 << i
-		store[i], ok = Float(v)
-		*dst[i] = &store[i]
+		ok = fn(i, v)
 	})
 	return ok
+}
+
+// Fields sets the numbers of an object whose keys are all among names,
+// each given once; dst[i] receives names[i], pointing into store (as long
+// as names), so that an object costs one allocation or none.
+func Fields(v *fastjson.Value, names []string, dst []**float64, store []float64) bool {
+	return Object(v, names, func(i int, v *fastjson.Value) bool {
+		var ok bool
+		store[i], ok = Float(v)
+		*dst[i] = &store[i]
+		return ok
+	})
 }
 
 // Numbers returns an array of finite numbers.
