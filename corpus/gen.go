@@ -92,13 +92,23 @@ type genLine struct {
 // or how many cases were asked for.
 func caseRand(seed uint64, op, fam string, k int) *rand.Rand {
 	h := fnv.New64a()
-	fmt.Fprintf(h, "%s/%s/%d", op, fam, k)
+	var b [64]byte
+	h.Write(strconv.AppendInt(append(append(append(append(b[:0], op...), '/'), fam...), '/'), int64(k), 10))
 	return rand.New(rand.NewPCG(seed, h.Sum64()))
+}
+
+// caseNumber returns k with at least four digits, zeros first.
+func caseNumber(k int) string {
+	s := strconv.Itoa(k)
+	if len(s) < 4 {
+		s = "0000"[len(s):] + s
+	}
+	return s
 }
 
 func genCase(seed uint64, op string, fam props.Family, k int) (Case, error) {
 	rng := caseRand(seed, op, fam.Name, k)
-	id := op + "/" + fam.Name + "/" + fmt.Sprintf("%04d", k)
+	id := op + "/" + fam.Name + "/" + caseNumber(k)
 	for try := 0; ; try++ {
 		if fam.Raw != nil {
 			raw, err := fam.Raw(rng)
