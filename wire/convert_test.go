@@ -2,8 +2,11 @@ package wire_test
 
 import (
 	"errors"
+	"slices"
 	"strings"
 	"testing"
+
+	"github.com/paulmach/orb"
 
 	"github.com/viewspec/viewspec/spec"
 	"github.com/viewspec/viewspec/timeline"
@@ -132,5 +135,63 @@ func TestTimelineOf(t *testing.T) {
 	}
 	if b.ID != "b" || b.FirstVisibleS != nil || b.FirstShownS != nil || b.ShownS != 0 || b.Bucket != "never" {
 		t.Errorf("TimelineOf(b) = %+v, want b: never visible or shown", b)
+	}
+}
+
+// RouteOf writes one speed as a number and several as an array, as
+// encoding/json writes numbers; Value reads them back to the same route.
+func TestRouteOfRoundTrip(t *testing.T) {
+	pts := []orb.Point{{0, 0}, {0, 0.01}, {0.01, 0.01}}
+	for _, c := range []struct {
+		speeds []float64
+		want   string
+	}{
+		{[]float64{13.9}, `13.9`},
+		{[]float64{13.9, 1e-7}, `[13.9,1e-7]`},
+	} {
+		w := wire.RouteOf(pts, c.speeds)
+		if string(w.SpeedMps) != c.want {
+			t.Errorf("RouteOf(speeds %v).speed_mps = %s, want %s", c.speeds, w.SpeedMps, c.want)
+		}
+		r, err := w.Value("route")
+		if err != nil {
+			t.Fatalf("RouteOf(speeds %v).Value: %v", c.speeds, err)
+		}
+		if got := r.Segment(1).SpeedMps; got != c.speeds[len(c.speeds)-1] {
+			t.Errorf("RouteOf(speeds %v): segment 1 at %v m/s, want %v", c.speeds, got, c.speeds[len(c.speeds)-1])
+		}
+	}
+}
+
+// NearKeys finds the keys that look like a field: another case, or the
+// field without its unit suffix; not the field itself, nor a key that only
+// starts alike; none in a line that is not a JSON object.
+func TestNearKeys(t *testing.T) {
+	got := wire.NearKeys([]byte(`{"Heading_Deg":1,"heading":2,"heading_deg":3,"head":4,"headingdeg":5}`), "heading_deg")
+	slices.Sort(got)
+	if want := []string{"Heading_Deg", "heading"}; !slices.Equal(got, want) {
+		t.Errorf("NearKeys(heading_deg) = %v, want %v", got, want)
+	}
+	if got := wire.NearKeys([]byte(`{"":1,"_x":2}`), "_x"); len(got) != 0 {
+		t.Errorf("NearKeys(_x) = %v, want none (no stem before a leading underscore)", got)
+	}
+	if got := wire.NearKeys([]byte(`{"x":1}`), "_"); len(got) != 0 {
+		t.Errorf("NearKeys(_) = %v, want none", got)
+	}
+	if got := wire.NearKeys([]byte(`[1]`), "x"); got != nil {
+		t.Errorf("NearKeys(an array) = %v, want none", got)
+	}
+}
+
+// An unknown op is named in its error cut to 40 bytes.
+func TestUnknownOpErrorCut(t *testing.T) {
+	long := strings.Repeat("o", 41)
+	for _, c := range []struct{ op, want string }{
+		{long[:40], `"` + long[:40] + `"`},
+		{long, `"` + long[:40] + `…"`},
+	} {
+		if got := (&wire.UnknownOpError{Op: c.op, Known: []string{"hello"}}).Error(); got != "op: unknown op "+c.want+" (known: hello)" {
+			t.Errorf("UnknownOpError(%d bytes) = %q, want the op as %s", len(c.op), got, c.want)
+		}
 	}
 }
