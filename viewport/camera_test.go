@@ -98,11 +98,39 @@ func TestCameraValidateBoundaries(t *testing.T) {
 		func(c *viewport.Camera) { c.Device.TilePx = 512 },
 		func(c *viewport.Camera) { c.Device.AnchorX, c.Device.AnchorY = 0, 1 },
 		func(c *viewport.Camera) { c.Device.FarRatio = 1.0000001 },
+		func(c *viewport.Camera) {
+			c.Device.WidthPx, c.Device.HeightPx = viewport.MaxScreenPx, viewport.MaxScreenPx
+		},
+		func(c *viewport.Camera) { c.PitchDeg, c.Device.AnchorX, c.Device.AnchorY = 0, 1, 0 },
+		func(c *viewport.Camera) { // a clear area of 1 × 1 px at the bottom right
+			c.PitchDeg, c.Device.WidthPx, c.Device.HeightPx = 0, viewport.MaxScreenPx, viewport.MaxScreenPx
+			c.Device.InsetTopPx, c.Device.InsetLeftPx = viewport.MaxScreenPx-1, viewport.MaxScreenPx-1
+		},
 	} {
 		c := validCamera()
 		mutate(&c)
 		if err := c.Validate(); err != nil {
 			t.Errorf("Validate(%+v) = %v, want nil", c, err)
 		}
+	}
+}
+
+// The anchor must lie below the horizon (SPEC §2), found from the focal
+// length f = (H/2)/tan(fov_y/2). Hand-computed for H = 800, fov_y 60°
+// (f = 400√3) at pitch 61°: y_horizon = cy − f·cot θ = 400 − 400√3/tan 61°
+// ≈ 15.97, so anchor_y 0 (y = 0) is above it and refused, anchor_y 0.05
+// (y = 40) below it and taken.
+func TestCameraValidateAnchorAgainstHorizon(t *testing.T) {
+	c := viewport.Camera{PitchDeg: 61, Zoom: 16, Device: viewport.NewDevice(400, 800, 60)}
+	if y := 400 - 400*math.Sqrt(3)/math.Tan(61*math.Pi/180); !(y > 0 && y < 40) {
+		t.Fatalf("y_horizon = %v, want between the two anchors", y)
+	}
+	c.Device.AnchorY = 0
+	if err := c.Validate(); err == nil || !strings.Contains(err.Error(), "device.anchor_y") {
+		t.Errorf("Validate(anchor_y 0, above the horizon at 15.97) = %v, want an error naming device.anchor_y", err)
+	}
+	c.Device.AnchorY = 0.05
+	if err := c.Validate(); err != nil {
+		t.Errorf("Validate(anchor_y 0.05, below the horizon at 15.97) = %v, want nil", err)
 	}
 }
