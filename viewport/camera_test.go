@@ -51,6 +51,12 @@ func TestCameraValidate(t *testing.T) {
 			"device.inset_left_px+inset_right_px", "390"},
 		{"insets cover the height", func(c *viewport.Camera) { c.Device.InsetTopPx, c.Device.InsetBottomPx = 500, 400 },
 			"device.inset_top_px+inset_bottom_px", "900"},
+		{"insets exactly the height", func(c *viewport.Camera) { c.Device.InsetTopPx, c.Device.InsetBottomPx = 444, 400 },
+			"device.inset_top_px+inset_bottom_px", "844"},
+		// Latitude and longitude at their closed ends are valid: the field
+		// named is the one that is not.
+		{"zoom 31 at lat 90, lon 180", func(c *viewport.Camera) { c.LatDeg, c.LonDeg, c.Zoom = 90, 180, 31 }, "zoom", "31"},
+		{"zoom 31 at lat -90, lon -180", func(c *viewport.Camera) { c.LatDeg, c.LonDeg, c.Zoom = -90, -180, 31 }, "zoom", "31"},
 		{"far ratio 1", func(c *viewport.Camera) { c.Device.FarRatio = 1 }, "device.far_ratio", "1"},
 		// At pitch 80° with a 45° field of view the horizon lies at
 		// y = cy − f·cot 80° ≈ 422 − 1019·0.176 ≈ 242 px; an anchor at the top
