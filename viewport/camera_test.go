@@ -39,6 +39,7 @@ func TestCameraValidate(t *testing.T) {
 		{"zoom +Inf", func(c *viewport.Camera) { c.Zoom = inf }, "zoom", "+Inf"},
 		{"width 0", func(c *viewport.Camera) { c.Device.WidthPx = 0 }, "device.width_px", "0"},
 		{"height -5", func(c *viewport.Camera) { c.Device.HeightPx = -5 }, "device.height_px", "-5"},
+		{"height 0", func(c *viewport.Camera) { c.Device.HeightPx = 0 }, "device.height_px", "0"},
 		{"fov 0", func(c *viewport.Camera) { c.Device.FovYDeg = 0 }, "device.fov_y_deg", "0"},
 		{"fov 180", func(c *viewport.Camera) { c.Device.FovYDeg = 180 }, "device.fov_y_deg", "180"},
 		{"tile 300", func(c *viewport.Camera) { c.Device.TilePx = 300 }, "device.tile_px", "300"},
@@ -138,5 +139,27 @@ func TestCameraValidateAnchorAgainstHorizon(t *testing.T) {
 	c.Device.AnchorY = 0.05
 	if err := c.Validate(); err != nil {
 		t.Errorf("Validate(anchor_y 0.05, below the horizon at 15.97) = %v, want nil", err)
+	}
+}
+
+// With every field at a closed end of its range and the last one (the far
+// ratio) out of range, the error names the far ratio: no bound of an
+// earlier field is taken as open.
+func TestCameraValidateEveryFieldAtItsEnds(t *testing.T) {
+	low := viewport.Camera{LatDeg: -90, LonDeg: -180, HeadingDeg: 0, PitchDeg: 0, Zoom: 0, Device: viewport.NewDevice(1, 1, 45)}
+	low.Device.AnchorX, low.Device.AnchorY = 0, 0
+	high := viewport.Camera{LatDeg: 90, LonDeg: 180, HeadingDeg: math.Nextafter(360, 0), PitchDeg: 0, Zoom: 30,
+		Device: viewport.NewDevice(viewport.MaxScreenPx, viewport.MaxScreenPx, 45)}
+	high.Device.TilePx, high.Device.AnchorX, high.Device.AnchorY = 512, 1, 1
+	high.Device.InsetTopPx, high.Device.InsetRightPx = viewport.MaxScreenPx/2, viewport.MaxScreenPx/2-1
+	for _, c := range []viewport.Camera{low, high} {
+		if err := c.Validate(); err != nil {
+			t.Fatalf("Validate(%+v) = %v, want nil", c, err)
+		}
+		c.Device.FarRatio = 1
+		var fe *spec.FieldError
+		if err := c.Validate(); !errors.As(err, &fe) || fe.Field != "device.far_ratio" {
+			t.Errorf("Validate(%+v with far ratio 1) = %v, want an error naming device.far_ratio", c, err)
+		}
 	}
 }
