@@ -162,4 +162,13 @@ func TestCameraValidateEveryFieldAtItsEnds(t *testing.T) {
 			t.Errorf("Validate(%+v with far ratio 1) = %v, want an error naming device.far_ratio", c, err)
 		}
 	}
+	// Insets of 100000 px are within their own range; they leave no clear
+	// area, which is checked after every field.
+	c := high
+	c.Device.InsetTopPx, c.Device.InsetRightPx, c.Device.InsetBottomPx, c.Device.InsetLeftPx = viewport.MaxScreenPx, viewport.MaxScreenPx, viewport.MaxScreenPx, viewport.MaxScreenPx
+	c.Device.FarRatio = 1
+	var fe *spec.FieldError
+	if err := c.Validate(); !errors.As(err, &fe) || fe.Field != "device.far_ratio" {
+		t.Errorf("Validate(insets of 100000 px, far ratio 1) = %v, want an error naming device.far_ratio", err)
+	}
 }
