@@ -11,10 +11,12 @@ import (
 
 // tiltedCamera is the worked camera of SPEC §2 (400 × 800 px, fov_y 60°,
 // pitch 60°, far ratio 10, so f = 400√3 and y_far = 40) with the user at
-// a quarter of the height above the bottom (anchor_y 0.75), at latitude 60°.
+// a quarter of the width from the left and a quarter of the height above
+// the bottom (anchor 0.25, 0.75), a 100 px inset on the left, at latitude
+// 60°.
 func tiltedCamera(headingDeg float64) viewport.Camera {
 	d := viewport.NewDevice(400, 800, 60)
-	d.AnchorY = 0.75
+	d.AnchorX, d.AnchorY, d.InsetLeftPx = 0.25, 0.75, 100
 	return viewport.Camera{LatDeg: 60, LonDeg: 10, HeadingDeg: headingDeg, PitchDeg: 60, Zoom: 15, Device: d}
 }
 
@@ -23,20 +25,23 @@ func tiltedCamera(headingDeg float64) viewport.Camera {
 // den = f·cos θ − b·sin θ, v = b·f/den, u = a·(f + v·sin θ)/f, with
 // f = 400√3, θ = 60°, a = x − 200, b = 400 − y:
 //
-//	near row y = 800: b = −400, den = 200√3 + 200√3, v = −400, depth = 200√3, u = ∓100
-//	far row y = 40:   b = 360,  den = 200√3 − 180√3, v = 7200, depth = 4000√3, u = ∓2000
-//	user y = 600:     b = −200, den = 200√3 + 100√3, v = −800/3, u = 0
+//	near row y = 800: b = −400, den = 200√3 + 200√3, v = −400, depth = 200√3,
+//	                  u = a/2: −50 at the left column x = 100, 100 at the right x = 400
+//	far row y = 40:   b = 360,  den = 200√3 − 180√3, v = 7200, depth = 4000√3,
+//	                  u = 10·a: −1000 and 2000
+//	user (100, 600):  a = −100, b = −200, den = 200√3 + 100√3, v = −800/3,
+//	                  u = −100·(400√3 − 400√3/3)/(400√3) = −200/3
 //
-// So the trapezoid is 7600 px deep with widths 200 and 4000: 7600 × 2100
-// px²; the farthest vertex from the user is (±2000, 7200), at
-// hypot(2000, 7200 + 800/3) px. Ground metres are px / s × cos φ_U, with
+// So the trapezoid is 7600 px deep with widths 150 and 3000: 7600 × 1575
+// px²; the farthest vertex from the user is the far-right one, (2000, 7200),
+// at hypot(2000 + 200/3, 7200 + 800/3) px (the far-left one is 933 px across). Ground metres are px / s × cos φ_U, with
 // s = 256·2^15/(2πR) at zoom 15, and cos 60° = ½. Neither depends on the
 // heading.
 func TestFootprintTiltedWorked(t *testing.T) {
 	s := 256 * math.Pow(2, 15) / (2 * math.Pi * viewport.EarthRadiusM)
 	g := math.Cos(60*math.Pi/180) / s // ground metres per world pixel
-	wantArea := 7600 * 2100 * g * g
-	wantRadius := math.Hypot(2000, 7200+800.0/3) * g
+	wantArea := 7600 * 1575 * g * g
+	wantRadius := math.Hypot(2000+200.0/3, 7200+800.0/3) * g
 	const rel = 1e-12 // SPEC §2: area and visible radius within 1e-12 of the value
 	for _, h := range []float64{0, 123} {
 		v := mustPrepare(t, tiltedCamera(h))
