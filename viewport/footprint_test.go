@@ -146,3 +146,25 @@ func TestClearAreaInsetsLeftRight(t *testing.T) {
 		}
 	}
 }
+
+// A far row exactly on the clear area's bottom row leaves nothing in view:
+// the footprint is empty (SPEC §2: y_far at or below the bottom row). The
+// bottom inset is chosen, to the last bit, so that the bottom row is the
+// far row of the worked camera (y_far = 40).
+func TestFootprintEmptyWhenFarRowIsTheBottom(t *testing.T) {
+	c := tiltedCamera(0)
+	v := mustPrepare(t, c)
+	far := v.FarRowPx()
+	inset := c.Device.HeightPx - far
+	for i := 0; i < 8 && c.Device.HeightPx-inset != far; i++ {
+		inset = math.Nextafter(inset, inset+(c.Device.HeightPx-inset-far))
+	}
+	c.Device.InsetBottomPx = inset
+	v = mustPrepare(t, c)
+	if _, _, _, b := v.ClearArea(); b != v.FarRowPx() {
+		t.Fatalf("bottom row %.17g, far row %.17g: want them equal", b, v.FarRowPx())
+	}
+	if fp := v.Footprint(); !fp.Empty || fp.AreaM2 != 0 || fp.VisibleRadiusM != 0 {
+		t.Errorf("Footprint(far row on the bottom row) = %+v, want empty, area 0, radius 0", fp)
+	}
+}
