@@ -562,3 +562,34 @@ func mustUnproject(t *testing.T, v *viewport.View, x, y float64) viewport.Mercat
 	}
 	return m
 }
+
+// GroundDistM off a side and off a corner of a turned footprint at
+// latitude 60°, where a Mercator metre is half a ground metre. Hand-computed
+// in the Mercator plane with the heading's forward F = (sin h, cos h) and
+// right Rt = (cos h, −sin h): a point 70 m along Rt from the middle of the
+// right edge is 70 m from it (35 ground metres); one 100 m along F and 50 m
+// along Rt from the far-right corner is hypot(100, 50) m from that corner.
+func TestGroundDistMOffSideAndCorner(t *testing.T) {
+	c := viewport.Camera{LatDeg: 60, LonDeg: 10, HeadingDeg: 30, Zoom: 16, Device: viewport.NewDevice(400, 800, 60)}
+	v := mustPrepare(t, c)
+	fp := v.Footprint()
+	h := 30 * math.Pi / 180
+	F := [2]float64{math.Sin(h), math.Cos(h)}
+	Rt := [2]float64{math.Cos(h), -math.Sin(h)}
+	g := viewport.GroundScale(60)
+	nr, fr := fp.Mercator[1], fp.Mercator[2] // near-right, far-right
+	for _, c := range []struct {
+		desc string
+		p    viewport.Mercator
+		want float64
+	}{
+		{"70 m off the right side", viewport.Mercator{X: (nr.X+fr.X)/2 + 70*Rt[0], Y: (nr.Y+fr.Y)/2 + 70*Rt[1]}, 70 * g},
+		{"off the far-right corner", viewport.Mercator{X: fr.X + 100*F[0] + 50*Rt[0], Y: fr.Y + 100*F[1] + 50*Rt[1]}, math.Hypot(100, 50) * g},
+	} {
+		d, ok := v.GroundDistM(&fp, c.p)
+		const tol = 1e-6 // m: Mercator coordinates near 1e7 m carry 2e-9 m
+		if !ok || math.Abs(d-c.want) > tol {
+			t.Errorf("GroundDistM(%s) = %.9g, want %.9g (off by %.3g m, tolerance %g m)", c.desc, d, c.want, d-c.want, tol)
+		}
+	}
+}
