@@ -222,9 +222,17 @@ func TestWrapsAtTheAntimeridian(t *testing.T) {
 			t.Errorf("Mercator{X: R·%v°}.LatLon() lon = %.17g, want %v (off by %.3g°, tolerance %.3g°)", c.lonDeg, got, c.want, got-c.want, tol)
 		}
 	}
+	// In range, ShortDXM is exact: dx itself, not dx taken round the world
+	// and back (which would keep only the digits a sum with πR keeps).
+	for _, dx := range []float64{1e-3, -1e-3, 12345.678} {
+		if got := viewport.ShortDXM(dx); got != dx {
+			t.Errorf("ShortDXM(%v) = %.17g, want %v exactly", dx, got, dx)
+		}
+	}
 	half := math.Pi * R
 	for _, c := range []struct{ dx, want float64 }{
 		{half, -half}, {-half, -half}, {math.Nextafter(half, 0), math.Nextafter(half, 0)}, {1.5 * half, -0.5 * half}, {-1.5 * half, 0.5 * half},
+		{3 * half, -half}, {-3 * half, -half}, // a whole turn from ±πR: wrapped to −πR, never +πR
 	} {
 		if got := viewport.ShortDXM(c.dx); math.Abs(got-c.want) > 1e-6 {
 			t.Errorf("ShortDXM(%.17g) = %.17g, want %.17g (off by %.3g m, tolerance 1 µm)", c.dx, got, c.want, got-c.want)
