@@ -168,3 +168,25 @@ func TestFootprintEmptyWhenFarRowIsTheBottom(t *testing.T) {
 		t.Errorf("Footprint(far row on the bottom row) = %+v, want empty, area 0, radius 0", fp)
 	}
 }
+
+// Top and bottom insets bound the clear area's rows on their own sides:
+// with inset_top 20 and inset_bottom 30 on an 800 px high screen the clear
+// rows are [20, 770]. Hand-computed margins on the middle column (x 200,
+// 200 px from either side): y 10 is 10 px above the top edge (−10), y 775
+// is 5 px below the bottom edge (−5), y 765 is 5 px inside it (5).
+func TestClearAreaInsetsTopBottom(t *testing.T) {
+	d := viewport.NewDevice(400, 800, 60)
+	d.InsetTopPx, d.InsetBottomPx = 20, 30
+	v := mustPrepare(t, viewport.Camera{LatDeg: 10, LonDeg: 20, HeadingDeg: 30, Zoom: 15, Device: d})
+	if l, tp, r, b := v.ClearArea(); l != 0 || r != 400 || tp != 20 || b != 770 {
+		t.Fatalf("ClearArea() = %v, %v, %v, %v, want 0, 20, 400, 770", l, tp, r, b)
+	}
+	for _, c := range []struct{ y, margin float64 }{{10, -10}, {775, -5}, {765, 5}} {
+		m := mustUnproject(t, &v, 200, c.y)
+		sp := v.ProjectMercator(m)
+		tol := roundTripTolPx(&v, m, sp, 0)
+		if dm := math.Abs(sp.MarginPx - c.margin); dm > tol {
+			t.Errorf("Project(Unproject(200, %v)).MarginPx = %.17g, want %v (off by %.3g px, tolerance %.3g)", c.y, sp.MarginPx, c.margin, dm, tol)
+		}
+	}
+}

@@ -549,8 +549,9 @@ func TestBindingEdge(t *testing.T) {
 		}
 	}
 	far := v.BindingEdge(v.ProjectMercator(mustUnproject(t, &v, 200, 20)))
-	if !strings.Contains(far, "> k·f") {
-		t.Errorf("beyond the far limit: %q, want depth > k·f", far)
+	// Hand-computed: k·f = 10 × 400/tan 30° = 4000√3 = 6928.2 px.
+	if !strings.Contains(far, "> k·f 6928.2 px") {
+		t.Errorf("beyond the far limit: %q, want depth > k·f 6928.2 px", far)
 	}
 }
 
