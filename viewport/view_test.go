@@ -594,3 +594,31 @@ func TestGroundDistMOffSideAndCorner(t *testing.T) {
 		}
 	}
 }
+
+// The quick test's distance is the distance to the footprint's line for a
+// point straight out from the middle of a side: 50 Mercator metres out
+// from the left and the right side of a tilted, turned footprint, inside
+// the near and far rows, is 50 m from the footprint (hand-computed: the
+// foot of the perpendicular is the side's midpoint).
+func TestQuickTestDistanceOffTheSides(t *testing.T) {
+	d := viewport.NewDevice(400, 800, 60)
+	d.InsetLeftPx = 60
+	v := mustPrepare(t, viewport.Camera{LatDeg: 20, LonDeg: 5, HeadingDeg: 30, PitchDeg: 50, Zoom: 16, Device: d})
+	vs := v.Footprint().Mercator
+	for _, side := range []struct {
+		desc string
+		a, b viewport.Mercator // the side, from near to far
+		out  float64           // +1: its outside is to the left of a→b
+	}{{"left", vs[0], vs[3], 1}, {"right", vs[1], vs[2], -1}} {
+		ex, ey := side.b.X-side.a.X, side.b.Y-side.a.Y
+		n := math.Hypot(ex, ey)
+		// (−ey, ex)/n is the left normal of a→b.
+		p := viewport.Mercator{X: (side.a.X+side.b.X)/2 - side.out*50*ey/n, Y: (side.a.Y+side.b.Y)/2 + side.out*50*ex/n}
+		sure, in, distM, ok := viewport.QuickTest(&v, p)
+		const tol = 1e-6 // m: Mercator coordinates near 2e6 m carry 3e-10 m, the sums a few times that
+		if !ok || !sure || in || math.Abs(distM-50) > tol {
+			t.Errorf("QuickTest(50 m out from the %s side) = sure %v, in %v, %.9g m, want sure, out, 50 m (off by %.3g m, tolerance %g m)",
+				side.desc, sure, in, distM, distM-50, tol)
+		}
+	}
+}
