@@ -622,3 +622,45 @@ func TestQuickTestDistanceOffTheSides(t *testing.T) {
 		}
 	}
 }
+
+// A view is wrapped when the screen shows ground half the world's width
+// or more east or west of T (SPEC §2). Hand-computed at pitch 0, where a
+// screen corner lies (x − cx, cy − y) world pixels from T: heading 0 puts
+// the corners W/2 px east or west, heading 90° puts them H/2 px; at zoom 1
+// half the world is 256·2/2 = 256 px. So 512 px across is wrapped and
+// 510 px is not; the far ratio (next to 1 here) does not enter at pitch 0.
+func TestWrappedAtHalfTheWorld(t *testing.T) {
+	for _, c := range []struct {
+		w, h, headingDeg float64
+		want             bool
+	}{
+		{512, 256, 0, true}, {510, 256, 0, false},
+		{256, 512, 90, true}, {256, 510, 90, false},
+		{512, 100, 180, true}, {100, 512, 270, true},
+	} {
+		d := viewport.NewDevice(c.w, c.h, 60)
+		d.FarRatio = 1.0000001
+		v := mustPrepare(t, viewport.Camera{LatDeg: 0, LonDeg: 0, HeadingDeg: c.headingDeg, Zoom: 1, Device: d})
+		if got := v.Wrapped(); got != c.want {
+			t.Errorf("Wrapped(%v × %v px, heading %v°, zoom 1) = %v, want %v", c.w, c.h, c.headingDeg, got, c.want)
+		}
+	}
+}
+
+// A tilted view is wrapped by its far corners. Hand-computed with SPEC §2's
+// worked camera (400 × 800 px, fov_y 60°, pitch 60°, far ratio 10): the
+// far row y = 40 lies v = 7200 world px ahead of T and the bottom row
+// v = 400 behind, so heading east (90°) the far corners are 7200 px east
+// of T: half the world is 128·2^5 = 4096 px at zoom 5 (wrapped) and 8192
+// px at zoom 6 (not).
+func TestWrappedByTheFarCorners(t *testing.T) {
+	for _, c := range []struct {
+		zoom float64
+		want bool
+	}{{5, true}, {6, false}} {
+		v := mustPrepare(t, viewport.Camera{HeadingDeg: 90, PitchDeg: 60, Zoom: c.zoom, Device: viewport.NewDevice(400, 800, 60)})
+		if got := v.Wrapped(); got != c.want {
+			t.Errorf("Wrapped(pitch 60°, heading 90°, zoom %v) = %v, want %v", c.zoom, got, c.want)
+		}
+	}
+}
