@@ -664,3 +664,14 @@ func TestWrappedByTheFarCorners(t *testing.T) {
 		}
 	}
 }
+
+// The two decisions at their edges (SPEC §2, §6): depth 0 has no pixel
+// (depth ≤ 0); a margin of 0 is in view (margin ≥ 0).
+func TestScreenPointEdges(t *testing.T) {
+	if (viewport.ScreenPoint{DepthPx: 0}).HasPixel() {
+		t.Errorf("ScreenPoint{DepthPx: 0}.HasPixel() = true, want false")
+	}
+	if !(viewport.ScreenPoint{DepthPx: 1, MarginPx: 0}).InView() {
+		t.Errorf("ScreenPoint{MarginPx: 0}.InView() = false, want true")
+	}
+}
