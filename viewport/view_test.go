@@ -675,3 +675,46 @@ func TestScreenPointEdges(t *testing.T) {
 		t.Errorf("ScreenPoint{MarginPx: 0}.InView() = false, want true")
 	}
 }
+
+// BindingEdge names the edge a screen point's margin measures to, with
+// the comparison as it stands, for points on either side of each edge and
+// on it (an edge is in view: ≥ and ≤). Hand-made screen points on a 400 ×
+// 800 px screen with insets 60, 10, 20, 30 (left, right, top, bottom): the
+// clear area is [60, 390] × [20, 770]; at pitch 0 no far row binds. The
+// far limit on the worked camera of SPEC §2 (pitch 60°, y_far = 40,
+// k·f = 4000√3 = 6928.2 px).
+func TestBindingEdgeEveryEdge(t *testing.T) {
+	d := viewport.NewDevice(400, 800, 60)
+	d.InsetLeftPx, d.InsetRightPx, d.InsetTopPx, d.InsetBottomPx = 60, 10, 20, 30
+	flat := mustPrepare(t, viewport.Camera{LatDeg: 10, LonDeg: 20, Zoom: 15, Device: d})
+	tilted := mustPrepare(t, viewport.Camera{LatDeg: 10, LonDeg: 20, PitchDeg: 60, Zoom: 15, Device: viewport.NewDevice(400, 800, 60)})
+	for _, c := range []struct {
+		v    *viewport.View
+		s    viewport.ScreenPoint
+		want string
+	}{
+		{&flat, viewport.ScreenPoint{X: 30, Y: 400, DepthPx: 1}, "left edge: x 30.0 px < 60.0 px"},
+		{&flat, viewport.ScreenPoint{X: 30, Y: 100, DepthPx: 1}, "left edge: x 30.0 px < 60.0 px"}, // −30 against the top's 80
+		{&flat, viewport.ScreenPoint{X: 70, Y: 10, DepthPx: 1}, "top edge: y 10.0 px < 20.0 px"},   // −10 against the left's 10
+		{&flat, viewport.ScreenPoint{X: 60, Y: 20, DepthPx: 1}, "left edge: x 60.0 px ≥ 60.0 px"},  // a tie: the first edge
+		{&flat, viewport.ScreenPoint{X: 60, Y: 400, DepthPx: 1}, "left edge: x 60.0 px ≥ 60.0 px"},
+		{&flat, viewport.ScreenPoint{X: 70, Y: 400, DepthPx: 1}, "left edge: x 70.0 px ≥ 60.0 px"},
+		{&flat, viewport.ScreenPoint{X: 395, Y: 400, DepthPx: 1}, "right edge: x 395.0 px > 390.0 px"},
+		{&flat, viewport.ScreenPoint{X: 390, Y: 400, DepthPx: 1}, "right edge: x 390.0 px ≤ 390.0 px"},
+		{&flat, viewport.ScreenPoint{X: 385, Y: 400, DepthPx: 1}, "right edge: x 385.0 px ≤ 390.0 px"},
+		{&flat, viewport.ScreenPoint{X: 200, Y: 10, DepthPx: 1}, "top edge: y 10.0 px < 20.0 px"},
+		{&flat, viewport.ScreenPoint{X: 200, Y: 20, DepthPx: 1}, "top edge: y 20.0 px ≥ 20.0 px"},
+		{&flat, viewport.ScreenPoint{X: 200, Y: 25, DepthPx: 1}, "top edge: y 25.0 px ≥ 20.0 px"},
+		{&flat, viewport.ScreenPoint{X: 200, Y: 775, DepthPx: 1}, "bottom edge: y 775.0 px > 770.0 px"},
+		{&flat, viewport.ScreenPoint{X: 200, Y: 770, DepthPx: 1}, "bottom edge: y 770.0 px ≤ 770.0 px"},
+		{&flat, viewport.ScreenPoint{X: 200, Y: 765, DepthPx: 1}, "bottom edge: y 765.0 px ≤ 770.0 px"},
+		{&tilted, viewport.ScreenPoint{X: 200, Y: 30, DepthPx: 7000}, "far limit: depth 7000.0 px > k·f 6928.2 px"},
+		{&tilted, viewport.ScreenPoint{X: 200, Y: 45, DepthPx: 6000}, "far limit: depth 6000.0 px ≤ k·f 6928.2 px"},
+		{&tilted, viewport.ScreenPoint{X: 200, Y: 400, DepthPx: 0}, "behind the camera: depth 0.0 px ≤ 0"},
+		{&tilted, viewport.ScreenPoint{X: 200, Y: 40, DepthPx: 10 * tilted.FocalPx()}, "far limit: depth 6928.2 px ≤ k·f 6928.2 px"},
+	} {
+		if got := c.v.BindingEdge(c.s); got != c.want {
+			t.Errorf("BindingEdge(%+v) = %q, want %q", c.s, got, c.want)
+		}
+	}
+}
