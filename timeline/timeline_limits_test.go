@@ -123,6 +123,14 @@ func TestTimelineLimitsInclusive(t *testing.T) {
 	if err := d.Validate(); err != nil {
 		t.Errorf("Validate(1e7 ticks) = %v, want nil", err)
 	}
+	// The tick divides the horizon within 1e-9 inclusive: 1e-9 s / 1 s is
+	// 1e-9 from 0 ticks (hand-computed; the quotient and its distance from
+	// 0 are exact).
+	d = drive(1)
+	d.HorizonS, d.TickS, d.BucketEdgesS = 1e-9, 1, [2]float64{0, 1e-9}
+	if err := d.Validate(); err != nil {
+		t.Errorf("Validate(horizon 1e-9 s, tick 1 s) = %v, want nil", err)
+	}
 	d = drive(1e7 + 1)
 	if err := d.Validate(); field(err) != "tick_s" {
 		t.Errorf("Validate(1e7 + 1 ticks) = %v, want an error naming tick_s", err)
