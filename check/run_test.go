@@ -1,0 +1,112 @@
+package check_test
+
+import (
+	"bufio"
+	"fmt"
+	"os"
+	"strings"
+	"testing"
+
+	"github.com/viewspec/viewspec/check"
+	"github.com/viewspec/viewspec/corpus"
+	"github.com/viewspec/viewspec/reference"
+)
+
+// helperEnv makes the test binary an implementation under test: the
+// reference itself ("reference"), or one that answers every request after
+// hello with a line that is not JSON ("garbage").
+const helperEnv = "VIEWSPEC_CHECK_HELPER"
+
+func TestMain(m *testing.M) {
+	switch os.Getenv(helperEnv) {
+	case "reference":
+		if err := reference.Serve(os.Stdin, os.Stdout); err != nil {
+			os.Exit(2)
+		}
+		os.Exit(0)
+	case "garbage":
+		in := bufio.NewScanner(os.Stdin)
+		in.Buffer(nil, 1<<24)
+		for in.Scan() {
+			if strings.Contains(in.Text(), `"hello"`) {
+				fmt.Println(`{"spec":"viewspec/1","ops":["footprint","hello","horizon","metrics","project","timeline","unproject","zoom"]}`)
+				continue
+			}
+			fmt.Println("not an answer")
+		}
+		os.Exit(0)
+	}
+	os.Exit(m.Run())
+}
+
+// helperCommand is the shell command that runs this test binary as the
+// implementation mode names.
+func helperCommand(mode string) string {
+	return helperEnv + "=" + mode + " " + os.Args[0]
+}
+
+// defaultCases returns the first n cases of the default corpus.
+func defaultCases(t *testing.T, n int) []corpus.Case {
+	t.Helper()
+	f, err := os.Open("../fixtures/corpus/default.jsonl")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	cases, err := corpus.ReadCorpus("default.jsonl", f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return cases[:min(n, len(cases))]
+}
+
+// The reference, run as an implementation under test, passes its own
+// corpus under the strict profile: every case sent, answered and passed,
+// with the ops hello names.
+func TestRunReferencePasses(t *testing.T) {
+	cases := defaultCases(t, 400)
+	ck := check.NewChecker(check.Profiles["strict"])
+	var checked int
+	res, err := check.Run(cases, check.RunOptions{Command: helperCommand("reference"),
+		OnChecked: func(*corpus.Case, []byte, check.CaseResult) { checked++ }}, ck)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rep := ck.Report()
+	if len(res.Trouble) > 0 || rep.Failed() || rep.Counts.Pass != len(cases) || res.Sent != len(cases) || res.Answered != len(cases) || checked != len(cases) {
+		t.Errorf("Run(reference, %d cases) = trouble %v, sent %d, answered %d, checked %d, counts %+v; want all %d passed",
+			len(cases), res.Trouble, res.Sent, res.Answered, checked, rep.Counts, len(cases))
+	}
+	if !strings.Contains(strings.Join(res.Ops, ","), "timeline") {
+		t.Errorf("Run: ops %v, want those hello names", res.Ops)
+	}
+	// Narrowed to one op, only its cases are sent.
+	ck = check.NewChecker(check.Profiles["strict"])
+	res, err = check.Run(cases, check.RunOptions{Command: helperCommand("reference"), Ops: map[string]bool{"project": true}}, ck)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := 0
+	for _, c := range cases {
+		if c.Op == "project" {
+			want++
+		}
+	}
+	if want == 0 || res.Sent != want {
+		t.Errorf("Run(ops project) sent %d, want the %d project cases", res.Sent, want)
+	}
+}
+
+// An implementation that prints what is not an answer is trouble, and
+// its cases fail the run.
+func TestRunGarbageIsTrouble(t *testing.T) {
+	cases := defaultCases(t, 20)
+	ck := check.NewChecker(check.Profiles["strict"])
+	res, err := check.Run(cases, check.RunOptions{Command: helperCommand("garbage")}, ck)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(res.Trouble) == 0 || !ck.Report().Failed() {
+		t.Errorf("Run(garbage) = trouble %v, report failed %v; want trouble and a failed report", res.Trouble, ck.Report().Failed())
+	}
+}
