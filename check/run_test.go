@@ -110,3 +110,34 @@ func TestRunGarbageIsTrouble(t *testing.T) {
 		t.Errorf("Run(garbage) = trouble %v, report failed %v; want trouble and a failed report", res.Trouble, ck.Report().Failed())
 	}
 }
+
+// Every case of the default corpus passes against its own expectation
+// under the strict profile (Compare reads each op's answer, footprints and
+// horizons included); CheckAnswers says so in its text report, and counts
+// a second answer for a case and an answer for no case as stray.
+func TestEveryCaseAgainstItself(t *testing.T) {
+	cases := defaultCases(t, 1<<30)
+	var answers []corpus.Answer
+	for i, c := range cases {
+		if st, diffs := check.Compare(&cases[i], c.Expect, &check.Profile{}); st != check.Pass {
+			t.Fatalf("Compare(%s, its own expectation, zero tolerances) = %v %+v, want pass", c.ID, st, diffs)
+		}
+		answers = append(answers, corpus.Answer{ID: c.ID, Raw: c.Expect, Line: i + 1})
+	}
+	answers = append(answers, corpus.Answer{ID: cases[0].ID, Raw: cases[0].Expect, Line: len(cases) + 1},
+		corpus.Answer{ID: "no-such-case", Raw: cases[0].Expect, Line: len(cases) + 2})
+	rep := check.CheckAnswers(cases, answers, nil, check.Profiles["strict"])
+	if rep.Counts.Pass != len(cases) || rep.Counts.Fail != 0 {
+		t.Errorf("CheckAnswers(the corpus's own answers) counts %+v, want %d passed", rep.Counts, len(cases))
+	}
+	var b strings.Builder
+	if err := rep.WriteText(&b); err != nil {
+		t.Fatal(err)
+	}
+	if want := fmt.Sprintf("%d cases under the strict profile: %d pass, 0 borderline, 0 fail, 0 missing, 0 skipped", len(cases), len(cases)); !strings.Contains(b.String(), want) {
+		t.Errorf("WriteText: %q, want it to say %q", b.String(), want)
+	}
+	if !strings.Contains(b.String(), `a second answer for "`+cases[0].ID+`"`) || !strings.Contains(b.String(), `answer for "no-such-case", which is no case of the corpus`) {
+		t.Errorf("WriteText: %q, want the two stray answers named", b.String())
+	}
+}
