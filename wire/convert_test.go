@@ -148,6 +148,7 @@ func TestRouteOfRoundTrip(t *testing.T) {
 	}{
 		{[]float64{13.9}, `13.9`},
 		{[]float64{13.9, 1e-7}, `[13.9,1e-7]`},
+		{[]float64{1e21, 1e-6}, `[1e+21,0.000001]`}, // encoding/json's switch points to and from exponents
 	} {
 		w := wire.RouteOf(pts, c.speeds)
 		if string(w.SpeedMps) != c.want {

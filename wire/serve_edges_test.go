@@ -117,3 +117,24 @@ func TestDecodeFieldsOpDoesNotRead(t *testing.T) {
 		}
 	}
 }
+
+// Margins are written by hand as encoding/json writes them (outside
+// oracle: the standard library's encoder): empty lists left out, null
+// entries, the empty-footprint margin alone or among lists.
+func TestMarginsAsEncodingJSON(t *testing.T) {
+	one, half, big := 1.0, 0.5, 1e21
+	for _, m := range []*wire.Margins{
+		{},
+		{EmptyPx: &half},
+		{MarginPx: []*float64{&one, nil, &big}},
+		{HorizonPx: []*float64{nil}, EmptyPx: &half, TurnMarginDeg: []*float64{&one}},
+		{SideMarginM: []*float64{&half}, ChoiceMarginM: []*float64{nil, &one}, BucketMarginS: []*float64{&one}, FirstShownMarginPx: []*float64{&half}},
+		{MarginPx: []*float64{}, BucketMarginS: []*float64{&one, &half}},
+	} {
+		want, _ := json.Marshal(m)
+		got, err := wire.Marshal(m)
+		if err != nil || string(got) != string(want) {
+			t.Errorf("Marshal(%+v) = %s, %v, want %s", *m, got, err, want)
+		}
+	}
+}
