@@ -1,0 +1,126 @@
+package check_test
+
+import (
+	"encoding/json"
+	"fmt"
+	"strings"
+	"testing"
+
+	"github.com/viewspec/viewspec/check"
+	"github.com/viewspec/viewspec/corpus"
+)
+
+// onePoint is a project case expecting one point at (100, 200) in view
+// with the given margin.
+func onePoint(id, family, margin string) *corpus.Case {
+	return &corpus.Case{ID: id, Op: "project", Family: family,
+		Request: json.RawMessage(`{"op":"project","id":"` + id + `"}`),
+		Expect:  json.RawMessage(`{"id":"` + id + `","screen":[{"x":100,"y":200,"depth":500,"in_view":true}]}`),
+		Margins: json.RawMessage(`{"margin_px":[` + margin + `]}`)}
+}
+
+func answer(id string, x float64, in bool) json.RawMessage {
+	return json.RawMessage(fmt.Sprintf(`{"id":%q,"screen":[{"x":%v,"y":200,"depth":500,"in_view":%v}]}`, id, x, in))
+}
+
+// A report of a hand-made mix, counted by status, op and family (SPEC §7):
+// two passes, one borderline (in view flipped with a margin of 1e-7 px,
+// within strict's 1e-6 px), two fails (a pixel 0.5 px off; in view flipped
+// 40 px inside), one missing, two skipped — 8 cases, 5 checked, so the
+// report fails with 2 failed and 1 missing; the text report says so, lists
+// the worst difference first (the flip outside its margin, ratio +Inf),
+// the skipped share (2/8 = 25 %), and the stray answers after ten.
+func TestReportOfAMix(t *testing.T) {
+	ck := check.NewChecker(check.Profiles["strict"])
+	ck.Check(onePoint("a", "plain", "40"), answer("a", 100, true))
+	ck.Check(onePoint("b", "plain", "40"), answer("b", 100, true))
+	ck.Check(onePoint("c", "edge", "1e-7"), answer("c", 100, false))
+	ck.Check(onePoint("d", "plain", "40"), answer("d", 100.5, true))
+	ck.Check(onePoint("e", "edge", "40"), answer("e", 100, false))
+	ck.Check(onePoint("f", "plain", "40"), nil)
+	ck.Record(check.CaseResult{ID: "g", Op: "zoom", Family: "plain", Status: check.Skipped, Note: "op not selected"})
+	ck.Record(check.CaseResult{ID: "h", Op: "zoom", Family: "plain", Status: check.Skipped, Note: "op not selected"})
+	for i := range 12 {
+		ck.Stray(fmt.Sprintf("stray %d", i))
+	}
+	rep := ck.Report()
+	want := check.Counts{Pass: 2, Borderline: 1, Fail: 2, Missing: 1, Skipped: 2}
+	if rep.Counts != want || rep.Counts.Total() != 8 || rep.Counts.Checked() != 5 {
+		t.Errorf("counts %+v (total %d, checked %d), want %+v (8, 5)", rep.Counts, rep.Counts.Total(), rep.Counts.Checked(), want)
+	}
+	if got := rep.ByOp["project"]; got == nil || *got != (check.Counts{Pass: 2, Borderline: 1, Fail: 2, Missing: 1}) {
+		t.Errorf("by op project %+v", got)
+	}
+	if got := rep.ByFamily["project/edge"]; got == nil || *got != (check.Counts{Borderline: 1, Fail: 1}) {
+		t.Errorf("by family project/edge %+v", got)
+	}
+	if !rep.Failed() || rep.Verdict() != "2 failed, 1 missing" {
+		t.Errorf("Failed %v, Verdict %q, want true, \"2 failed, 1 missing\"", rep.Failed(), rep.Verdict())
+	}
+	if len(rep.NotPassed) != 4 {
+		t.Errorf("not passed %+v, want c, d, e and f", rep.NotPassed)
+	}
+	if len(rep.Worst) == 0 || rep.Worst[0].CaseID != "e" {
+		t.Errorf("worst %+v, want e's flip first", rep.Worst)
+	}
+	var b strings.Builder
+	if err := rep.WriteText(&b); err != nil {
+		t.Fatal(err)
+	}
+	text := b.String()
+	for _, w := range []string{
+		"FAIL: 8 cases under the strict profile: 2 pass, 1 borderline, 2 fail, 1 missing, 2 skipped (25% of the corpus)\n",
+		"  edge       0     1           1     0        0        \n",
+		" 1. e  screen[0].in_view (fail): got false, want true — pixel_px decision, tolerance 1e-06 (reference margin 40)\n",
+		"screen[0].xy (fail): got (100.5, 200), want (100, 200) — off by 0.5, pixel_px tolerance ",
+		"stray answer: stray 9\n… and 2 more stray answers\n",
+	} {
+		if !strings.Contains(text, w) {
+			t.Errorf("WriteText lacks %q:\n%s", w, text)
+		}
+	}
+	if strings.Contains(text, "stray 10") || strings.Contains(text, "nothing was compared") {
+		t.Errorf("WriteText lists an eleventh stray answer or says nothing was compared:\n%s", text)
+	}
+}
+
+// A report with nothing checked fails and says why; one with every case
+// passed passes.
+func TestReportVerdicts(t *testing.T) {
+	empty := check.NewChecker(check.Profiles["strict"]).Report()
+	if !empty.Failed() || empty.Verdict() != "no cases: the corpus is empty" {
+		t.Errorf("empty: Failed %v, Verdict %q", empty.Failed(), empty.Verdict())
+	}
+	ck := check.NewChecker(check.Profiles["strict"])
+	ck.Record(check.CaseResult{ID: "g", Op: "zoom", Family: "plain", Status: check.Skipped})
+	skipped := ck.Report()
+	if !skipped.Failed() || skipped.Verdict() != "no case checked: all 1 skipped or missing" {
+		t.Errorf("all skipped: Failed %v, Verdict %q", skipped.Failed(), skipped.Verdict())
+	}
+	var b strings.Builder
+	_ = skipped.WriteText(&b)
+	if !strings.Contains(b.String(), "(100% of the corpus)") || !strings.Contains(b.String(), "nothing was compared, so nothing is shown to agree") ||
+		strings.Contains(b.String(), "worst differences") {
+		t.Errorf("all skipped: WriteText = %q", b.String())
+	}
+	ck = check.NewChecker(check.Profiles["strict"])
+	ck.Check(onePoint("a", "plain", "40"), answer("a", 100, true))
+	if r := ck.Report(); r.Failed() {
+		t.Errorf("one case passed: Failed true")
+	}
+}
+
+// A discrete disagreement fails only when the reference's margin is larger
+// than the tolerance (SPEC §7): a margin of exactly strict's 1e-6 px, either
+// sign, is borderline; the next double above is a fail.
+func TestDiscreteMarginAtTheTolerance(t *testing.T) {
+	strict := check.Profiles["strict"]
+	for _, c := range []struct {
+		margin string
+		want   check.Status
+	}{{"1e-6", check.Borderline}, {"-1e-6", check.Borderline}, {"1.0000000000000002e-6", check.Fail}} {
+		if st, _ := check.Compare(onePoint("h", "edge", c.margin), answer("h", 100, false), &strict); st != c.want {
+			t.Errorf("in view flipped with a margin of %s px (tolerance 1e-6 px): %v, want %v", c.margin, st, c.want)
+		}
+	}
+}
