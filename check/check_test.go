@@ -3,6 +3,8 @@ package check_test
 import (
 	"encoding/json"
 	"fmt"
+	"math"
+	"os"
 	"strings"
 	"testing"
 
@@ -122,5 +124,52 @@ func TestDiscreteMarginAtTheTolerance(t *testing.T) {
 		if st, _ := check.Compare(onePoint("h", "edge", c.margin), answer("h", 100, false), &strict); st != c.want {
 			t.Errorf("in view flipped with a margin of %s px (tolerance 1e-6 px): %v, want %v", c.margin, st, c.want)
 		}
+	}
+}
+
+// An unprojected point is off by its haversine distance on the mean sphere
+// (R = 6 371 008.8 m, SPEC §7). Hand-computed: 1° of longitude on the
+// equator or of latitude anywhere is R·π/180 = 111 195.08 m; 1° of
+// longitude at 60° is 2R·asin(cos 60°·sin 0.5°) = 55 598.6 m.
+func TestUnprojectOffByTheHaversine(t *testing.T) {
+	const r = 6371008.8
+	field := check.Profiles["field"]
+	for _, c := range []struct {
+		want, got [2]float64 // lat, lon
+		m         float64
+	}{
+		{[2]float64{0, 0}, [2]float64{0, 1}, r * math.Pi / 180},
+		{[2]float64{0, 0}, [2]float64{1, 0}, r * math.Pi / 180},
+		{[2]float64{60, 10}, [2]float64{60, 11}, 2 * r * math.Asin(math.Cos(math.Pi/3)*math.Sin(math.Pi/360))},
+		{[2]float64{10, 179.5}, [2]float64{10, -179.5}, 2 * r * math.Asin(math.Cos(math.Pi/18)*math.Sin(math.Pi/360))},
+	} {
+		cs := &corpus.Case{ID: "u", Op: "unproject", Family: "unit", Request: json.RawMessage(`{"op":"unproject","id":"u"}`),
+			Expect: json.RawMessage(fmt.Sprintf(`{"id":"u","points":[{"lat":%v,"lon":%v}]}`, c.want[0], c.want[1]))}
+		st, diffs := check.Compare(cs, json.RawMessage(fmt.Sprintf(`{"id":"u","points":[{"lat":%v,"lon":%v}]}`, c.got[0], c.got[1])), &field)
+		if st != check.Fail || len(diffs) != 1 || math.Abs(diffs[0].Diff-c.m) > 1e-6*c.m {
+			t.Errorf("unprojected %v for %v: %v %+v, want a fail off by %.6g m (tolerance 1e-6 relative)", c.got, c.want, st, diffs, c.m)
+		}
+	}
+}
+
+// A continuous difference equal to its tolerance passes (|got − want| ≤
+// abs + rel·|want|, SPEC §7): a zoom of 1e-9 against 0 under strict's 1e-9.
+// A tolerance of 0 is a tolerance (finite and non-negative).
+func TestToleranceInclusive(t *testing.T) {
+	strict := check.Profiles["strict"]
+	cs := &corpus.Case{ID: "z", Op: "zoom", Family: "unit", Request: json.RawMessage(`{"op":"zoom","id":"z"}`),
+		Expect: json.RawMessage(`{"id":"z","zoom":[0],"pitch_deg":[0]}`)}
+	if st, diffs := check.Compare(cs, json.RawMessage(`{"id":"z","zoom":[1e-9],"pitch_deg":[0]}`), &strict); st != check.Pass {
+		t.Errorf("zoom 1e-9 against 0 (tolerance 1e-9): %v %+v, want pass", st, diffs)
+	}
+	if st, _ := check.Compare(cs, json.RawMessage(`{"id":"z","zoom":[1.0000000000000002e-9],"pitch_deg":[0]}`), &strict); st != check.Fail {
+		t.Errorf("zoom 1 ulp past 1e-9 against 0: %v, want fail", st)
+	}
+	f := t.TempDir() + "/zero.yaml"
+	if err := os.WriteFile(f, []byte("base: strict\nzoom: {abs: 0, rel: 0}\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if p, err := check.LoadProfile("strict", f); err != nil || p.Zoom != (check.Tolerance{}) {
+		t.Errorf("LoadProfile(zoom abs 0) = %+v, %v, want a zero zoom tolerance", p.Zoom, err)
 	}
 }
