@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/viewspec/viewspec/check"
@@ -131,5 +132,44 @@ func TestWriteCorpusChanges(t *testing.T) {
 		"screen[0].y 2 → 4 (by 2); screen[0].x 1 → 1.5 (by 0.5); and 1 more\n"
 	if got := b.String(); got != want {
 		t.Errorf("WriteCorpusChanges =\n%s\nwant\n%s", got, want)
+	}
+}
+
+// Each kind's line: the verdict under the profile is given for changed
+// answers (flipped, beyond, rounding) and not for the others; exactly
+// four changed values are listed without "and 0 more"; an expectation
+// that differs only in its spacing is no change.
+func TestWriteCorpusChangesKinds(t *testing.T) {
+	strict := check.Profiles["strict"]
+	const p0 = `{"x":100,"y":200,"depth":500,"in_view":true}`
+	redrawn := pcase("req", p0, "3")
+	redrawn.Request = []byte(`{"op":"project","id":"req","points":[]}`)
+	spaced := pcase("spaced", p0, "3")
+	spaced.Expect = []byte(`{ "id": "spaced", "screen": [ {"x": 100, "y": 200, "depth": 500, "in_view": true} ] }`)
+	old := []corpus.Case{pcase("beyond", p0, "3"), pcase("round", p0, "3"), pcase("req", p0, "3"), pcase("four", p0, "3"), pcase("spaced", p0, "3")}
+	next := []corpus.Case{
+		pcase("beyond", `{"x":100.5,"y":200,"depth":500,"in_view":true}`, "3"),
+		pcase("round", `{"x":100.0000000001,"y":200,"depth":500,"in_view":true}`, "3"),
+		redrawn,
+		pcase("four", `{"x":101,"y":201,"depth":501,"in_view":false}`, "3"),
+		spaced,
+	}
+	var b bytes.Buffer
+	changes := check.CorpusChanges(old, next, &strict)
+	check.WriteCorpusChanges(&b, changes, len(next), &strict)
+	got := b.String()
+	for _, w := range []string{
+		"4 of 5 cases changed",
+		"\nbeyond (project, unit): beyond, fail under strict: screen[0].x 100 → 100.5 (by 0.5)\n",
+		"\nround (project, unit): rounding, pass under strict: screen[0].x 100 → 100.0000000001 (by ",
+		"\nreq (project, unit): request: points absent → []\n",
+		"\nfour (project, unit): flipped, fail under strict: screen[0].in_view true → false; screen[0].depth 500 → 501 (by 1); screen[0].x 100 → 101 (by 1); screen[0].y 200 → 201 (by 1)\n",
+	} {
+		if !strings.Contains(got, w) {
+			t.Errorf("WriteCorpusChanges lacks %q:\n%s", w, got)
+		}
+	}
+	if strings.Contains(got, "spaced") || strings.Contains(got, "and 0 more") {
+		t.Errorf("WriteCorpusChanges lists a change of spacing, or \"and 0 more\":\n%s", got)
 	}
 }
