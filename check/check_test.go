@@ -173,3 +173,53 @@ func TestToleranceInclusive(t *testing.T) {
 		t.Errorf("LoadProfile(zoom abs 0) = %+v, %v, want a zero zoom tolerance", p.Zoom, err)
 	}
 }
+
+// The timeline's borderline rules at exactly their tolerances (SPEC §7): a
+// first showing decided by exactly strict's 1e-6 px, or after a U-turn
+// decided by exactly its 1e-9°, is borderline.
+func TestTimelineBordersAtTheTolerance(t *testing.T) {
+	strict := check.Profiles["strict"]
+	mk := func(margins string) *corpus.Case {
+		return &corpus.Case{ID: "t", Op: "timeline", Family: "unit", Request: json.RawMessage(`{"op":"timeline","id":"t"}`),
+			Expect:  json.RawMessage(`{"id":"t","markers":[{"id":"m0","first_visible_s":20,"first_shown_s":20,"shown_s":0.5,"bucket":"late"}]}`),
+			Margins: json.RawMessage(margins)}
+	}
+	later := json.RawMessage(`{"id":"t","markers":[{"id":"m0","first_visible_s":20.25,"first_shown_s":20.25,"shown_s":0.25,"bucket":"late"}]}`)
+	for _, c := range []struct{ desc, margins string }{
+		{"first shown by 1e-6 px", `{"bucket_margin_s":[5],"first_shown_margin_px":[1e-6]}`},
+		{"after a U-turn decided by 1e-9°", `{"bucket_margin_s":[5],"first_shown_margin_px":[40],"turn_margin_deg":[1e-9]}`},
+	} {
+		if st, diffs := check.Compare(mk(c.margins), later, &strict); st != check.Borderline {
+			t.Errorf("a tick later, %s: %v %+v, want borderline", c.desc, st, diffs)
+		}
+	}
+}
+
+// A horizon answer is compared row by row: a row a pixel off fails.
+func TestHorizonCompared(t *testing.T) {
+	strict := check.Profiles["strict"]
+	cs := &corpus.Case{ID: "h", Op: "horizon", Family: "unit", Request: json.RawMessage(`{"op":"horizon","id":"h"}`),
+		Expect: json.RawMessage(`{"id":"h","horizon_row_px":0,"far_row_px":40}`)}
+	for _, got := range []string{`{"id":"h","horizon_row_px":1,"far_row_px":40}`, `{"id":"h","horizon_row_px":0,"far_row_px":41}`} {
+		if st, _ := check.Compare(cs, json.RawMessage(got), &strict); st != check.Fail {
+			t.Errorf("horizon %s against %s: %v, want fail", got, cs.Expect, st)
+		}
+	}
+}
+
+// Cases missing for a reason (not merely unanswered) are listed with it,
+// at most ten.
+func TestMissingListed(t *testing.T) {
+	ck := check.NewChecker(check.Profiles["strict"])
+	ck.Check(onePoint("a", "plain", "40"), answer("a", 100, true))
+	ck.Check(onePoint("f", "plain", "40"), nil)
+	for i := range 11 {
+		ck.Record(check.CaseResult{ID: fmt.Sprintf("m%02d", i), Op: "project", Family: "plain", Status: check.Missing, Note: "the implementation exited"})
+	}
+	var b strings.Builder
+	_ = ck.Report().WriteText(&b)
+	text := b.String()
+	if !strings.Contains(text, "missing m09: the implementation exited\n") || strings.Contains(text, "missing m10") || strings.Contains(text, "missing f:") {
+		t.Errorf("WriteText: want m00 to m09 listed with their note, not m10 nor the unanswered f:\n%s", text)
+	}
+}
