@@ -223,3 +223,33 @@ func TestMissingListed(t *testing.T) {
 		t.Errorf("WriteText: want m00 to m09 listed with their note, not m10 nor the unanswered f:\n%s", text)
 	}
 }
+
+// A footprint is compared vertex by vertex, then its area and radius; an
+// empty footprint against a full one is a decision, borderline within the
+// reference's empty_px margin; a different count of vertices otherwise is
+// a failed shape.
+func TestFootprintCompared(t *testing.T) {
+	strict := check.Profiles["strict"]
+	const v4 = `[{"lat":0,"lon":0},{"lat":0,"lon":0.01},{"lat":0.01,"lon":0.01},{"lat":0.01,"lon":0}]`
+	mk := func(emptyPx string) *corpus.Case {
+		return &corpus.Case{ID: "f", Op: "footprint", Family: "unit", Request: json.RawMessage(`{"op":"footprint","id":"f"}`),
+			Expect:  json.RawMessage(`{"id":"f","vertices":` + v4 + `,"area_m2":1000000,"visible_radius_m":1500}`),
+			Margins: json.RawMessage(`{"empty_px":` + emptyPx + `}`)}
+	}
+	for _, c := range []struct {
+		desc, emptyPx, got string
+		want               check.Status
+	}{
+		{"the same", "40", `{"id":"f","vertices":` + v4 + `,"area_m2":1000000,"visible_radius_m":1500}`, check.Pass},
+		{"empty, decided by 40 px", "40", `{"id":"f","vertices":[],"area_m2":0,"visible_radius_m":0}`, check.Fail},
+		{"empty, decided by 1e-7 px", "1e-7", `{"id":"f","vertices":[],"area_m2":0,"visible_radius_m":0}`, check.Borderline},
+		{"three vertices", "1e-7", `{"id":"f","vertices":[{"lat":0,"lon":0},{"lat":0,"lon":0.01},{"lat":0.01,"lon":0.01}],"area_m2":1000000,"visible_radius_m":1500}`, check.Fail},
+		{"a vertex 1 m off", "40", `{"id":"f","vertices":[{"lat":0,"lon":0},{"lat":0,"lon":0.01},{"lat":0.01,"lon":0.01},{"lat":0.01,"lon":0.000009}],"area_m2":1000000,"visible_radius_m":1500}`, check.Fail},
+		{"the area 1 m² off", "40", `{"id":"f","vertices":` + v4 + `,"area_m2":1000001,"visible_radius_m":1500}`, check.Fail},
+		{"the radius 1 m off", "40", `{"id":"f","vertices":` + v4 + `,"area_m2":1000000,"visible_radius_m":1501}`, check.Fail},
+	} {
+		if st, diffs := check.Compare(mk(c.emptyPx), json.RawMessage(c.got), &strict); st != c.want {
+			t.Errorf("footprint %s: %v %+v, want %v", c.desc, st, diffs, c.want)
+		}
+	}
+}
