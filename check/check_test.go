@@ -2,6 +2,7 @@ package check_test
 
 import (
 	"encoding/json"
+	"encoding/xml"
 	"fmt"
 	"math"
 	"os"
@@ -251,5 +252,67 @@ func TestFootprintCompared(t *testing.T) {
 		if st, diffs := check.Compare(mk(c.emptyPx), json.RawMessage(c.got), &strict); st != c.want {
 			t.Errorf("footprint %s: %v %+v, want %v", c.desc, st, diffs, c.want)
 		}
+	}
+}
+
+// JUnit XML of the hand-made mix: one suite per op, one test case per
+// case; fails and missing are failures (typed by their status, headed by
+// their first difference or note), skipped are skipped, borderline passes
+// with its differences in its output.
+func TestWriteJUnitOfAMix(t *testing.T) {
+	ck := check.NewChecker(check.Profiles["strict"])
+	ck.Check(onePoint("a", "plain", "40"), answer("a", 100, true))
+	ck.Check(onePoint("c", "edge", "1e-7"), answer("c", 100, false))
+	ck.Check(onePoint("d", "plain", "40"), answer("d", 100.5, true))
+	ck.Check(onePoint("f", "plain", "40"), nil)
+	ck.Record(check.CaseResult{ID: "g", Op: "zoom", Family: "plain", Status: check.Skipped, Note: "op not selected"})
+	var b strings.Builder
+	if err := ck.Report().WriteJUnit(&b); err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Tests    int `xml:"tests,attr"`
+		Failures int `xml:"failures,attr"`
+		Skipped  int `xml:"skipped,attr"`
+		Suites   []struct {
+			Name     string `xml:"name,attr"`
+			Tests    int    `xml:"tests,attr"`
+			Failures int    `xml:"failures,attr"`
+			Skipped  int    `xml:"skipped,attr"`
+			Cases    []struct {
+				Name      string `xml:"name,attr"`
+				Classname string `xml:"classname,attr"`
+				Failure   *struct {
+					Message string `xml:"message,attr"`
+					Type    string `xml:"type,attr"`
+				} `xml:"failure"`
+				Skipped   *struct{} `xml:"skipped"`
+				SystemOut string    `xml:"system-out"`
+			} `xml:"testcase"`
+		} `xml:"testsuite"`
+	}
+	if err := xml.Unmarshal([]byte(b.String()), &doc); err != nil {
+		t.Fatalf("WriteJUnit: %v\n%s", err, b.String())
+	}
+	if doc.Tests != 5 || doc.Failures != 2 || doc.Skipped != 1 || len(doc.Suites) != 2 {
+		t.Fatalf("WriteJUnit: tests %d, failures %d, skipped %d, %d suites; want 5, 2, 1, 2:\n%s", doc.Tests, doc.Failures, doc.Skipped, len(doc.Suites), b.String())
+	}
+	p, z := doc.Suites[0], doc.Suites[1]
+	if p.Name != "project" || p.Tests != 4 || p.Failures != 2 || p.Skipped != 0 || z.Name != "zoom" || z.Tests != 1 || z.Skipped != 1 || z.Failures != 0 {
+		t.Errorf("suites %+v", doc.Suites)
+	}
+	byName := map[string]int{}
+	for i, c := range p.Cases {
+		byName[c.Name] = i
+	}
+	d, f, c := p.Cases[byName["d"]], p.Cases[byName["f"]], p.Cases[byName["c"]]
+	if d.Failure == nil || d.Failure.Type != "fail" || !strings.HasPrefix(d.Failure.Message, "fail: screen[0].xy: got (100.5, 200), want (100, 200) (off by 0.5, pixel_px tolerance ") || d.Classname != "viewspec.project.plain" {
+		t.Errorf("case d: %+v, want a fail headed by screen[0].xy", d)
+	}
+	if f.Failure == nil || f.Failure.Type != "missing" || !strings.Contains(f.Failure.Message, "no answer") {
+		t.Errorf("case f: %+v, want a missing failure saying no answer", f)
+	}
+	if c.Failure != nil || !strings.HasPrefix(c.SystemOut, "borderline: screen[0].in_view: got false, want true") {
+		t.Errorf("case c: %+v, want a borderline pass with its difference", c)
 	}
 }
