@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"fmt"
 	"os"
+	"slices"
 	"strings"
 	"testing"
 
@@ -22,6 +23,14 @@ func TestMain(m *testing.M) {
 	case "reference":
 		if err := reference.Serve(os.Stdin, os.Stdout); err != nil {
 			os.Exit(2)
+		}
+		os.Exit(0)
+	case "exit":
+		// Says hello, then exits without answering.
+		in := bufio.NewScanner(os.Stdin)
+		in.Buffer(nil, 1<<24)
+		if in.Scan() {
+			fmt.Println(`{"spec":"viewspec/1","ops":["footprint","hello","horizon","metrics","project","timeline","unproject","zoom"]}`)
 		}
 		os.Exit(0)
 	case "garbage":
@@ -62,13 +71,15 @@ func defaultCases(t *testing.T, n int) []corpus.Case {
 
 // The reference, run as an implementation under test, passes its own
 // corpus under the strict profile: every case sent, answered and passed,
-// with the ops hello names.
+// with the ops hello names, and progress told every 2,000 answers.
 func TestRunReferencePasses(t *testing.T) {
-	cases := defaultCases(t, 400)
+	cases := defaultCases(t, 1<<30)
 	ck := check.NewChecker(check.Profiles["strict"])
 	var checked int
+	var progress [][2]int
 	res, err := check.Run(cases, check.RunOptions{Command: helperCommand("reference"),
-		OnChecked: func(*corpus.Case, []byte, check.CaseResult) { checked++ }}, ck)
+		OnChecked: func(*corpus.Case, []byte, check.CaseResult) { checked++ },
+		Progress:  func(done, total int) { progress = append(progress, [2]int{done, total}) }}, ck)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -76,6 +87,10 @@ func TestRunReferencePasses(t *testing.T) {
 	if len(res.Trouble) > 0 || rep.Failed() || rep.Counts.Pass != len(cases) || res.Sent != len(cases) || res.Answered != len(cases) || checked != len(cases) {
 		t.Errorf("Run(reference, %d cases) = trouble %v, sent %d, answered %d, checked %d, counts %+v; want all %d passed",
 			len(cases), res.Trouble, res.Sent, res.Answered, checked, rep.Counts, len(cases))
+	}
+	// Progress every 2,000 answers, and at the end.
+	if n := len(cases); n < 2000 || !slices.Equal(progress, [][2]int{{2000, n}, {n, n}}) {
+		t.Errorf("Progress calls %v, want [[2000 %d] [%d %d]]", progress, n, n, n)
 	}
 	if !strings.Contains(strings.Join(res.Ops, ","), "timeline") {
 		t.Errorf("Run: ops %v, want those hello names", res.Ops)
@@ -139,5 +154,33 @@ func TestEveryCaseAgainstItself(t *testing.T) {
 	}
 	if !strings.Contains(b.String(), `a second answer for "`+cases[0].ID+`"`) || !strings.Contains(b.String(), `answer for "no-such-case", which is no case of the corpus`) {
 		t.Errorf("WriteText: %q, want the two stray answers named", b.String())
+	}
+}
+
+// An implementation that exits after hello leaves every case missing, each
+// saying why, and the run in trouble.
+func TestRunExitIsMissing(t *testing.T) {
+	cases := defaultCases(t, 5)
+	ck := check.NewChecker(check.Profiles["strict"])
+	res, err := check.Run(cases, check.RunOptions{Command: helperCommand("exit")}, ck)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rep := ck.Report()
+	if rep.Counts.Missing != len(cases) || len(res.Trouble) == 0 || !strings.Contains(res.Trouble[0], "stopped answering after 0 of 5 cases") {
+		t.Errorf("Run(exit after hello) = counts %+v, trouble %v; want 5 missing and the stop named", rep.Counts, res.Trouble)
+	}
+	for _, cr := range rep.NotPassed {
+		if !strings.HasPrefix(cr.Note, "not answered: the implementation exited") {
+			t.Errorf("case %s: note %q, want it to say the implementation exited", cr.ID, cr.Note)
+		}
+	}
+}
+
+// An empty corpus is a problem of its own.
+func TestValidateEmptyCorpus(t *testing.T) {
+	problems, n, err := check.ValidateCorpus(strings.NewReader(""))
+	if err != nil || n != 0 || len(problems) != 1 || problems[0].Msg != "no cases: the corpus is empty" {
+		t.Errorf("ValidateCorpus(empty) = %+v, %d, %v; want the one problem that it is empty", problems, n, err)
 	}
 }
