@@ -532,3 +532,20 @@ func TestLintNestingLimitAndOneBadByte(t *testing.T) {
 		t.Errorf("Parse(one control character) = %v, want it named and no others counted", err)
 	}
 }
+
+// A value of the wrong type is described by what it holds: a string cut
+// at 40 bytes, a boolean, a timestamp, an alias's target.
+func TestWrongTypeDescribed(t *testing.T) {
+	long := strings.Repeat("a", 45)
+	for _, c := range []struct{ doc, want string }{
+		{"hysteresis_kmh: " + long + "\n", `got string "` + long[:40] + `…"`},
+		{"hysteresis_kmh: true\n", "got boolean true"},
+		{"hysteresis_kmh: 2026-12-03\n", "got timestamp 2026-12-03"},
+		{"x: &x yes-no\nhysteresis_kmh: *x\n", `got string "yes-no"`},
+	} {
+		fs := Lint([]byte(c.doc), "t.yaml")
+		if !slices.ContainsFunc(fs, func(f Finding) bool { return strings.Contains(f.Message, c.want) }) {
+			t.Errorf("Lint(%q): want a finding containing %q:\n%s", c.doc, c.want, findingsText(fs))
+		}
+	}
+}
