@@ -534,11 +534,12 @@ func TestLintNestingLimitAndOneBadByte(t *testing.T) {
 }
 
 // A value of the wrong type is described by what it holds: a string cut
-// at 40 bytes, a boolean, a timestamp, an alias's target.
+// past 40 bytes (40 are kept whole), a boolean, a timestamp, an alias's target.
 func TestWrongTypeDescribed(t *testing.T) {
 	long := strings.Repeat("a", 45)
 	for _, c := range []struct{ doc, want string }{
 		{"hysteresis_kmh: " + long + "\n", `got string "` + long[:40] + `…"`},
+		{"hysteresis_kmh: " + long[:40] + "\n", `got string "` + long[:40] + `", want`}, // 40 bytes: whole
 		{"hysteresis_kmh: true\n", "got boolean true"},
 		{"hysteresis_kmh: 2026-12-03\n", "got timestamp 2026-12-03"},
 		{"x: &x yes-no\nhysteresis_kmh: *x\n", `got string "yes-no"`},
