@@ -16,6 +16,9 @@ import (
 // on the cases of the ops it touches: the checker's mutation score on these
 // mistakes is 100 %.
 func TestPythonImplementationAndMutants(t *testing.T) {
+	if testing.Short() {
+		t.Skip("the Python implementation over the whole corpus, with each of its mistakes; skipped with -short")
+	}
 	python := testtool.Need(t, "python3", "python3")
 	f, err := os.Open("../fixtures/corpus/default.jsonl")
 	if err != nil {

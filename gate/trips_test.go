@@ -253,3 +253,18 @@ func TestReadMarkerNames(t *testing.T) {
 		t.Errorf("ReadMarkerNames(CSV) = %v, want none", got)
 	}
 }
+
+// A whole-number id is a name's key up to 2^53 inclusive, as geofile
+// reads ids (geofile/geojson.go accepts |id| ≤ 2^53): 9007199254740992 is
+// named, 9007199254740994 (the next double) and 1.5 are not.
+func TestReadMarkerNamesLargestId(t *testing.T) {
+	pt := func(id, name string) string {
+		return `{"type":"Feature","properties":{"id":` + id + `,"name":"` + name + `"},"geometry":{"type":"Point","coordinates":[0,0]}}`
+	}
+	got := gate.ReadMarkerNames([]byte(`{"type":"FeatureCollection","features":[` + pt("9007199254740992", "edge") + `,` +
+		pt("-9007199254740992", "minus") + `,` + pt("9007199254740994", "beyond") + `,` + pt("1.5", "half") + `]}`))
+	want := map[string]string{"9007199254740992": "edge", "-9007199254740992": "minus"}
+	if len(got) != len(want) || got["9007199254740992"] != "edge" || got["-9007199254740992"] != "minus" {
+		t.Errorf("ReadMarkerNames = %v, want %v", got, want)
+	}
+}

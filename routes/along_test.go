@@ -245,3 +245,34 @@ func TestAlongHelpersDoNotAllocate(t *testing.T) {
 		t.Errorf("the along-route helpers allocate %v times a run, want 0", n)
 	}
 }
+
+// TestTurnsAtThreshold: a turn of exactly the threshold counts (SPEC §3: "at least"). On a grid of
+// parallels and meridians the Mercator headings are exact (hand-computed: Δy = 0 along a parallel
+// gives atan2(Δx, 0) = 90° or 270°, Δx = 0 along a meridian gives 0° or 180°), so a right-angle turn
+// is exactly 90° and a turn back the way one came exactly 180°.
+func TestTurnsAtThreshold(t *testing.T) {
+	pts := []orb.Point{{0, 0}, {0.01, 0}, {0.01, 0.01}, {0.02, 0.01}, {0, 0.01}}
+	r, err := New(pts, []float64{10})
+	if err != nil {
+		t.Fatalf("New(%v): %v", pts, err)
+	}
+	v := func(i int) float64 { return r.Segment(i).StartM }
+	for i, want := range []float64{90, 90, 180} {
+		a, b := r.Segment(i).HeadingDeg, r.Segment(i+1).HeadingDeg
+		if got := HeadingChangeDeg(a, b); got != want {
+			t.Fatalf("HeadingChangeDeg(%v, %v) at vertex %d = %v, want %v exactly (off by %g, tolerance 0)", a, b, i+1, got, want, got-want)
+		}
+	}
+	for _, c := range []struct {
+		minDeg float64
+		want   []float64
+	}{
+		{90, []float64{v(1), v(2), v(3)}},
+		{math.Nextafter(90, 180), []float64{v(3)}},
+		{180, []float64{v(3)}},
+	} {
+		if got := r.Turns(c.minDeg); !slices.Equal(got, c.want) {
+			t.Errorf("Turns(%v) = %v, want %v (a turn of exactly the threshold counts)", c.minDeg, got, c.want)
+		}
+	}
+}

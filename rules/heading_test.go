@@ -2,6 +2,8 @@ package rules
 
 import (
 	"math"
+	"strconv"
+	"strings"
 	"testing"
 )
 
@@ -42,9 +44,40 @@ func TestTurnMarginDeg(t *testing.T) {
 		{0, 180 - OppositeWithinDeg, 30, 0},
 		{0, 20, 30, math.Inf(1)},
 		{0, 20, 0, math.Inf(1)},
+		// Hand-computed: d = target − current, the short way round.
+		{90, 270, 10, OppositeWithinDeg},      // d = 180
+		{270, 90, 10, OppositeWithinDeg},      // d = −180, read as 180
+		{350, 10, 5, 160 - OppositeWithinDeg}, // d = 20 across north
+		{0, 10, 10, math.Inf(1)},              // the step reaches the target exactly
+		{100, 10, 30, 90 - OppositeWithinDeg}, // d = −90
 	} {
 		if got := TurnMarginDeg(c.cur, c.tgt, c.step); math.Abs(got-c.want) > 1e-12 && got != c.want {
 			t.Errorf("TurnMarginDeg(%v, %v, %v) = %v, want %v", c.cur, c.tgt, c.step, got, c.want)
+		}
+	}
+}
+
+// A kind outside the named ones prints its number: 0 and one past the last.
+func TestProblemKindOutOfRange(t *testing.T) {
+	for _, k := range []ProblemKind{0, ProblemKind(len(kindNames))} {
+		if got, want := k.String(), "kind("+strconv.Itoa(int(k))+")"; got != want {
+			t.Errorf("ProblemKind(%d).String() = %q, want %q", int(k), got, want)
+		}
+	}
+}
+
+// A position writes the file, then the line and column only when known,
+// then ": "; nothing when neither file nor line is known.
+func TestWritePos(t *testing.T) {
+	for _, c := range []struct {
+		file      string
+		line, col int
+		want      string
+	}{{"a.yaml", 0, 0, "a.yaml: "}, {"a.yaml", 3, 0, "a.yaml:3: "}, {"", 3, 4, "3:4: "}, {"", 0, 0, ""}} {
+		var b strings.Builder
+		writePos(&b, c.file, c.line, c.col)
+		if got := b.String(); got != c.want {
+			t.Errorf("writePos(%q, %d, %d) = %q, want %q", c.file, c.line, c.col, got, c.want)
 		}
 	}
 }

@@ -492,3 +492,61 @@ func mustReadRuleFile(t testing.TB, name string) []byte {
 	}
 	return data
 }
+
+// Nesting is refused past 64 levels below the document's root value, and
+// not before: 65 nested lists hold their innermost at depth 64, 66 at 65.
+// A file with one bad character names it and counts no others.
+func TestLintNestingLimitAndOneBadByte(t *testing.T) {
+	nested := func(k int) string { return strings.Repeat("[", k) + strings.Repeat("]", k) }
+	for _, c := range []struct {
+		k    int
+		deep bool
+	}{{65, false}, {66, true}} {
+		fs := Lint([]byte(nested(c.k)), "deep.yaml")
+		found := slices.ContainsFunc(fs, func(f Finding) bool { return strings.Contains(f.Message, "nested more than 64 deep") })
+		if found != c.deep {
+			t.Errorf("Lint(%d nested lists): nested too deep %v, want %v:\n%s", c.k, found, c.deep, findingsText(fs))
+		}
+	}
+	// Mappings count the same (the scalar inside k mappings is at depth k),
+	// and so does an alias: *a, two levels down in b, holds a's 64 nested
+	// lists from depth 3, the innermost at 66.
+	for _, c := range []struct {
+		desc string
+		doc  string
+		deep bool
+	}{
+		{"64 nested mappings", strings.Repeat("{a: ", 64) + "1" + strings.Repeat("}", 64), false},
+		{"65 nested mappings", strings.Repeat("{a: ", 65) + "1" + strings.Repeat("}", 65), true},
+		{"64 nested lists under a key", "a: " + nested(64), false},
+		{"the same through an alias two levels down", "a: &a " + nested(64) + "\nb: [*a]\n", true},
+	} {
+		fs := Lint([]byte(c.doc), "deep.yaml")
+		found := slices.ContainsFunc(fs, func(f Finding) bool { return strings.Contains(f.Message, "nested more than 64 deep") })
+		if found != c.deep {
+			t.Errorf("Lint(%s): nested too deep %v, want %v:\n%s", c.desc, found, c.deep, findingsText(fs))
+		}
+	}
+	_, err := Parse([]byte("a: \x01\n"), "s.yaml")
+	if err == nil || strings.Contains(err.Error(), "more after it") {
+		t.Errorf("Parse(one control character) = %v, want it named and no others counted", err)
+	}
+}
+
+// A value of the wrong type is described by what it holds: a string cut
+// past 40 bytes (40 are kept whole), a boolean, a timestamp, an alias's target.
+func TestWrongTypeDescribed(t *testing.T) {
+	long := strings.Repeat("a", 45)
+	for _, c := range []struct{ doc, want string }{
+		{"hysteresis_kmh: " + long + "\n", `got string "` + long[:40] + `…"`},
+		{"hysteresis_kmh: " + long[:40] + "\n", `got string "` + long[:40] + `", want`}, // 40 bytes: whole
+		{"hysteresis_kmh: true\n", "got boolean true"},
+		{"hysteresis_kmh: 2026-12-03\n", "got timestamp 2026-12-03"},
+		{"x: &x yes-no\nhysteresis_kmh: *x\n", `got string "yes-no"`},
+	} {
+		fs := Lint([]byte(c.doc), "t.yaml")
+		if !slices.ContainsFunc(fs, func(f Finding) bool { return strings.Contains(f.Message, c.want) }) {
+			t.Errorf("Lint(%q): want a finding containing %q:\n%s", c.doc, c.want, findingsText(fs))
+		}
+	}
+}

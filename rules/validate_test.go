@@ -119,6 +119,10 @@ func TestWarnings(t *testing.T) {
 			"wide-hysteresis bands[1].below_kmh: hysteresis_kmh 18 is at least half the width 36 of bands[1] (36 to 72 km/h): speeding up it is held on [54, 90), slowing down on [18, 54), and no speed is in both",
 		}},
 		{"hysteresis just under half a band", func(s *Set) { s.HysteresisKmh = 17.5 }, nil},
+		// Of equal zooms the first is the slower band a rise is measured from.
+		{"zoom rising after two equal bands", func(s *Set) { s.Bands[0].Zoom, s.Bands[1].Zoom, s.Bands[2].Zoom = 16, 16, 16.2 }, []string{
+			"zoom-rises bands[2].zoom: zoom 16.2 is above zoom 16 of the slower bands[0]: the map would zoom in as the speed rises",
+		}},
 		{"hysteresis as wide as the first band", func(s *Set) { s.HysteresisKmh = 36; s.Bands[1].BelowKmh = Edge(200) }, []string{
 			"wide-hysteresis bands[0].below_kmh: hysteresis_kmh 36 is at least the first band's upper edge 36: once the speed reaches 72 km/h the first band is never entered again (that needs a speed below 0)",
 		}},

@@ -39,6 +39,7 @@ func TestCameraValidate(t *testing.T) {
 		{"zoom +Inf", func(c *viewport.Camera) { c.Zoom = inf }, "zoom", "+Inf"},
 		{"width 0", func(c *viewport.Camera) { c.Device.WidthPx = 0 }, "device.width_px", "0"},
 		{"height -5", func(c *viewport.Camera) { c.Device.HeightPx = -5 }, "device.height_px", "-5"},
+		{"height 0", func(c *viewport.Camera) { c.Device.HeightPx = 0 }, "device.height_px", "0"},
 		{"fov 0", func(c *viewport.Camera) { c.Device.FovYDeg = 0 }, "device.fov_y_deg", "0"},
 		{"fov 180", func(c *viewport.Camera) { c.Device.FovYDeg = 180 }, "device.fov_y_deg", "180"},
 		{"tile 300", func(c *viewport.Camera) { c.Device.TilePx = 300 }, "device.tile_px", "300"},
@@ -51,6 +52,12 @@ func TestCameraValidate(t *testing.T) {
 			"device.inset_left_px+inset_right_px", "390"},
 		{"insets cover the height", func(c *viewport.Camera) { c.Device.InsetTopPx, c.Device.InsetBottomPx = 500, 400 },
 			"device.inset_top_px+inset_bottom_px", "900"},
+		{"insets exactly the height", func(c *viewport.Camera) { c.Device.InsetTopPx, c.Device.InsetBottomPx = 444, 400 },
+			"device.inset_top_px+inset_bottom_px", "844"},
+		// Latitude and longitude at their closed ends are valid: the field
+		// named is the one that is not.
+		{"zoom 31 at lat 90, lon 180", func(c *viewport.Camera) { c.LatDeg, c.LonDeg, c.Zoom = 90, 180, 31 }, "zoom", "31"},
+		{"zoom 31 at lat -90, lon -180", func(c *viewport.Camera) { c.LatDeg, c.LonDeg, c.Zoom = -90, -180, 31 }, "zoom", "31"},
 		{"far ratio 1", func(c *viewport.Camera) { c.Device.FarRatio = 1 }, "device.far_ratio", "1"},
 		// At pitch 80° with a 45° field of view the horizon lies at
 		// y = cy − f·cot 80° ≈ 422 − 1019·0.176 ≈ 242 px; an anchor at the top
@@ -98,11 +105,70 @@ func TestCameraValidateBoundaries(t *testing.T) {
 		func(c *viewport.Camera) { c.Device.TilePx = 512 },
 		func(c *viewport.Camera) { c.Device.AnchorX, c.Device.AnchorY = 0, 1 },
 		func(c *viewport.Camera) { c.Device.FarRatio = 1.0000001 },
+		func(c *viewport.Camera) {
+			c.Device.WidthPx, c.Device.HeightPx = viewport.MaxScreenPx, viewport.MaxScreenPx
+		},
+		func(c *viewport.Camera) { c.PitchDeg, c.Device.AnchorX, c.Device.AnchorY = 0, 1, 0 },
+		func(c *viewport.Camera) { // a clear area of 1 × 1 px at the bottom right
+			c.PitchDeg, c.Device.WidthPx, c.Device.HeightPx = 0, viewport.MaxScreenPx, viewport.MaxScreenPx
+			c.Device.InsetTopPx, c.Device.InsetLeftPx = viewport.MaxScreenPx-1, viewport.MaxScreenPx-1
+		},
 	} {
 		c := validCamera()
 		mutate(&c)
 		if err := c.Validate(); err != nil {
 			t.Errorf("Validate(%+v) = %v, want nil", c, err)
 		}
+	}
+}
+
+// The anchor must lie below the horizon (SPEC §2), found from the focal
+// length f = (H/2)/tan(fov_y/2). Hand-computed for H = 800, fov_y 60°
+// (f = 400√3) at pitch 61°: y_horizon = cy − f·cot θ = 400 − 400√3/tan 61°
+// ≈ 15.97, so anchor_y 0 (y = 0) is above it and refused, anchor_y 0.05
+// (y = 40) below it and taken.
+func TestCameraValidateAnchorAgainstHorizon(t *testing.T) {
+	c := viewport.Camera{PitchDeg: 61, Zoom: 16, Device: viewport.NewDevice(400, 800, 60)}
+	if y := 400 - 400*math.Sqrt(3)/math.Tan(61*math.Pi/180); !(y > 0 && y < 40) {
+		t.Fatalf("y_horizon = %v, want between the two anchors", y)
+	}
+	c.Device.AnchorY = 0
+	if err := c.Validate(); err == nil || !strings.Contains(err.Error(), "device.anchor_y") {
+		t.Errorf("Validate(anchor_y 0, above the horizon at 15.97) = %v, want an error naming device.anchor_y", err)
+	}
+	c.Device.AnchorY = 0.05
+	if err := c.Validate(); err != nil {
+		t.Errorf("Validate(anchor_y 0.05, below the horizon at 15.97) = %v, want nil", err)
+	}
+}
+
+// With every field at a closed end of its range and the last one (the far
+// ratio) out of range, the error names the far ratio: no bound of an
+// earlier field is taken as open.
+func TestCameraValidateEveryFieldAtItsEnds(t *testing.T) {
+	low := viewport.Camera{LatDeg: -90, LonDeg: -180, HeadingDeg: 0, PitchDeg: 0, Zoom: 0, Device: viewport.NewDevice(1, 1, 45)}
+	low.Device.AnchorX, low.Device.AnchorY = 0, 0
+	high := viewport.Camera{LatDeg: 90, LonDeg: 180, HeadingDeg: math.Nextafter(360, 0), PitchDeg: 0, Zoom: 30,
+		Device: viewport.NewDevice(viewport.MaxScreenPx, viewport.MaxScreenPx, 45)}
+	high.Device.TilePx, high.Device.AnchorX, high.Device.AnchorY = 512, 1, 1
+	high.Device.InsetTopPx, high.Device.InsetRightPx = viewport.MaxScreenPx/2, viewport.MaxScreenPx/2-1
+	for _, c := range []viewport.Camera{low, high} {
+		if err := c.Validate(); err != nil {
+			t.Fatalf("Validate(%+v) = %v, want nil", c, err)
+		}
+		c.Device.FarRatio = 1
+		var fe *spec.FieldError
+		if err := c.Validate(); !errors.As(err, &fe) || fe.Field != "device.far_ratio" {
+			t.Errorf("Validate(%+v with far ratio 1) = %v, want an error naming device.far_ratio", c, err)
+		}
+	}
+	// Insets of 100000 px are within their own range; they leave no clear
+	// area, which is checked after every field.
+	c := high
+	c.Device.InsetTopPx, c.Device.InsetRightPx, c.Device.InsetBottomPx, c.Device.InsetLeftPx = viewport.MaxScreenPx, viewport.MaxScreenPx, viewport.MaxScreenPx, viewport.MaxScreenPx
+	c.Device.FarRatio = 1
+	var fe *spec.FieldError
+	if err := c.Validate(); !errors.As(err, &fe) || fe.Field != "device.far_ratio" {
+		t.Errorf("Validate(insets of 100000 px, far ratio 1) = %v, want an error naming device.far_ratio", err)
 	}
 }

@@ -205,3 +205,37 @@ func parseRows(t *testing.T, out []byte, n int) [][2]float64 {
 	}
 	return rows
 }
+
+// Longitudes come back wrapped into [−180, 180), and X differences the
+// short way round into [−πR, πR) (SPEC §1). Hand-computed: X = R·λ, so
+// 190° is −170°, −190° is 170°, 370° is 10°, and a difference of πR is −πR.
+// A longitude already in range comes back unchanged to its last digits
+// (1e-9° is not taken through 180° and back).
+func TestWrapsAtTheAntimeridian(t *testing.T) {
+	R := viewport.EarthRadiusM
+	for _, c := range []struct{ lonDeg, want float64 }{
+		{190, -170}, {-190, 170}, {370, 10}, {10, 10}, {-179.5, -179.5}, {1e-9, 1e-9},
+	} {
+		m := viewport.Mercator{X: R * c.lonDeg * math.Pi / 180}
+		tol := 1e-9 * math.Abs(c.want) // relative: the rounding of R·λ and back
+		if got := m.LatLon()[0]; math.Abs(got-c.want) > tol {
+			t.Errorf("Mercator{X: R·%v°}.LatLon() lon = %.17g, want %v (off by %.3g°, tolerance %.3g°)", c.lonDeg, got, c.want, got-c.want, tol)
+		}
+	}
+	// In range, ShortDXM is exact: dx itself, not dx taken round the world
+	// and back (which would keep only the digits a sum with πR keeps).
+	for _, dx := range []float64{1e-3, -1e-3, 12345.678} {
+		if got := viewport.ShortDXM(dx); got != dx {
+			t.Errorf("ShortDXM(%v) = %.17g, want %v exactly", dx, got, dx)
+		}
+	}
+	half := math.Pi * R
+	for _, c := range []struct{ dx, want float64 }{
+		{half, -half}, {-half, -half}, {math.Nextafter(half, 0), math.Nextafter(half, 0)}, {1.5 * half, -0.5 * half}, {-1.5 * half, 0.5 * half},
+		{3 * half, -half}, {-3 * half, -half}, // a whole turn from ±πR: wrapped to −πR, never +πR
+	} {
+		if got := viewport.ShortDXM(c.dx); math.Abs(got-c.want) > 1e-6 {
+			t.Errorf("ShortDXM(%.17g) = %.17g, want %.17g (off by %.3g m, tolerance 1 µm)", c.dx, got, c.want, got-c.want)
+		}
+	}
+}

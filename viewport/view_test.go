@@ -549,8 +549,9 @@ func TestBindingEdge(t *testing.T) {
 		}
 	}
 	far := v.BindingEdge(v.ProjectMercator(mustUnproject(t, &v, 200, 20)))
-	if !strings.Contains(far, "> k·f") {
-		t.Errorf("beyond the far limit: %q, want depth > k·f", far)
+	// Hand-computed: k·f = 10 × 400/tan 30° = 4000√3 = 6928.2 px.
+	if !strings.Contains(far, "> k·f 6928.2 px") {
+		t.Errorf("beyond the far limit: %q, want depth > k·f 6928.2 px", far)
 	}
 }
 
@@ -561,4 +562,159 @@ func mustUnproject(t *testing.T, v *viewport.View, x, y float64) viewport.Mercat
 		t.Fatalf("(%v, %v) sees no ground", x, y)
 	}
 	return m
+}
+
+// GroundDistM off a side and off a corner of a turned footprint at
+// latitude 60°, where a Mercator metre is half a ground metre. Hand-computed
+// in the Mercator plane with the heading's forward F = (sin h, cos h) and
+// right Rt = (cos h, −sin h): a point 70 m along Rt from the middle of the
+// right edge is 70 m from it (35 ground metres); one 100 m along F and 50 m
+// along Rt from the far-right corner is hypot(100, 50) m from that corner.
+func TestGroundDistMOffSideAndCorner(t *testing.T) {
+	c := viewport.Camera{LatDeg: 60, LonDeg: 10, HeadingDeg: 30, Zoom: 16, Device: viewport.NewDevice(400, 800, 60)}
+	v := mustPrepare(t, c)
+	fp := v.Footprint()
+	h := 30 * math.Pi / 180
+	F := [2]float64{math.Sin(h), math.Cos(h)}
+	Rt := [2]float64{math.Cos(h), -math.Sin(h)}
+	g := viewport.GroundScale(60)
+	nr, fr := fp.Mercator[1], fp.Mercator[2] // near-right, far-right
+	for _, c := range []struct {
+		desc string
+		p    viewport.Mercator
+		want float64
+	}{
+		{"70 m off the right side", viewport.Mercator{X: (nr.X+fr.X)/2 + 70*Rt[0], Y: (nr.Y+fr.Y)/2 + 70*Rt[1]}, 70 * g},
+		{"off the far-right corner", viewport.Mercator{X: fr.X + 100*F[0] + 50*Rt[0], Y: fr.Y + 100*F[1] + 50*Rt[1]}, math.Hypot(100, 50) * g},
+	} {
+		d, ok := v.GroundDistM(&fp, c.p)
+		const tol = 1e-6 // m: Mercator coordinates near 1e7 m carry 2e-9 m
+		if !ok || math.Abs(d-c.want) > tol {
+			t.Errorf("GroundDistM(%s) = %.9g, want %.9g (off by %.3g m, tolerance %g m)", c.desc, d, c.want, d-c.want, tol)
+		}
+	}
+}
+
+// The quick test's distance is the distance to the footprint's line for a
+// point straight out from the middle of a side: 50 Mercator metres out
+// from the left and the right side of a tilted, turned footprint, inside
+// the near and far rows, is 50 m from the footprint (hand-computed: the
+// foot of the perpendicular is the side's midpoint).
+func TestQuickTestDistanceOffTheSides(t *testing.T) {
+	d := viewport.NewDevice(400, 800, 60)
+	d.InsetLeftPx = 60
+	v := mustPrepare(t, viewport.Camera{LatDeg: 20, LonDeg: 5, HeadingDeg: 30, PitchDeg: 50, Zoom: 16, Device: d})
+	vs := v.Footprint().Mercator
+	for _, side := range []struct {
+		desc string
+		a, b viewport.Mercator // the side, from near to far
+		out  float64           // +1: its outside is to the left of a→b
+	}{{"left", vs[0], vs[3], 1}, {"right", vs[1], vs[2], -1}} {
+		ex, ey := side.b.X-side.a.X, side.b.Y-side.a.Y
+		n := math.Hypot(ex, ey)
+		// (−ey, ex)/n is the left normal of a→b.
+		p := viewport.Mercator{X: (side.a.X+side.b.X)/2 - side.out*50*ey/n, Y: (side.a.Y+side.b.Y)/2 + side.out*50*ex/n}
+		sure, in, distM, ok := viewport.QuickTest(&v, p)
+		const tol = 1e-6 // m: Mercator coordinates near 2e6 m carry 3e-10 m, the sums a few times that
+		if !ok || !sure || in || math.Abs(distM-50) > tol {
+			t.Errorf("QuickTest(50 m out from the %s side) = sure %v, in %v, %.9g m, want sure, out, 50 m (off by %.3g m, tolerance %g m)",
+				side.desc, sure, in, distM, distM-50, tol)
+		}
+	}
+}
+
+// A view is wrapped when the screen shows ground half the world's width
+// or more east or west of T (SPEC §2). Hand-computed at pitch 0, where a
+// screen corner lies (x − cx, cy − y) world pixels from T: heading 0 puts
+// the corners W/2 px east or west, heading 90° puts them H/2 px; at zoom 1
+// half the world is 256·2/2 = 256 px. So 512 px across is wrapped and
+// 510 px is not; the far ratio (next to 1 here) does not enter at pitch 0.
+func TestWrappedAtHalfTheWorld(t *testing.T) {
+	for _, c := range []struct {
+		w, h, headingDeg float64
+		want             bool
+	}{
+		{512, 256, 0, true}, {510, 256, 0, false},
+		{256, 512, 90, true}, {256, 510, 90, false},
+		{512, 100, 180, true}, {100, 512, 270, true},
+	} {
+		d := viewport.NewDevice(c.w, c.h, 60)
+		d.FarRatio = 1.0000001
+		v := mustPrepare(t, viewport.Camera{LatDeg: 0, LonDeg: 0, HeadingDeg: c.headingDeg, Zoom: 1, Device: d})
+		if got := v.Wrapped(); got != c.want {
+			t.Errorf("Wrapped(%v × %v px, heading %v°, zoom 1) = %v, want %v", c.w, c.h, c.headingDeg, got, c.want)
+		}
+	}
+}
+
+// A tilted view is wrapped by its far corners. Hand-computed with SPEC §2's
+// worked camera (400 × 800 px, fov_y 60°, pitch 60°, far ratio 10): the
+// far row y = 40 lies v = 7200 world px ahead of T and the bottom row
+// v = 400 behind, so heading east (90°) the far corners are 7200 px east
+// of T: half the world is 128·2^5 = 4096 px at zoom 5 (wrapped) and 8192
+// px at zoom 6 (not).
+func TestWrappedByTheFarCorners(t *testing.T) {
+	for _, c := range []struct {
+		zoom float64
+		want bool
+	}{{5, true}, {6, false}} {
+		v := mustPrepare(t, viewport.Camera{HeadingDeg: 90, PitchDeg: 60, Zoom: c.zoom, Device: viewport.NewDevice(400, 800, 60)})
+		if got := v.Wrapped(); got != c.want {
+			t.Errorf("Wrapped(pitch 60°, heading 90°, zoom %v) = %v, want %v", c.zoom, got, c.want)
+		}
+	}
+}
+
+// The two decisions at their edges (SPEC §2, §6): depth 0 has no pixel
+// (depth ≤ 0); a margin of 0 is in view (margin ≥ 0).
+func TestScreenPointEdges(t *testing.T) {
+	if (viewport.ScreenPoint{DepthPx: 0}).HasPixel() {
+		t.Errorf("ScreenPoint{DepthPx: 0}.HasPixel() = true, want false")
+	}
+	if !(viewport.ScreenPoint{DepthPx: 1, MarginPx: 0}).InView() {
+		t.Errorf("ScreenPoint{MarginPx: 0}.InView() = false, want true")
+	}
+}
+
+// BindingEdge names the edge a screen point's margin measures to, with
+// the comparison as it stands, for points on either side of each edge and
+// on it (an edge is in view: ≥ and ≤). Hand-made screen points on a 400 ×
+// 800 px screen with insets 60, 10, 20, 30 (left, right, top, bottom): the
+// clear area is [60, 390] × [20, 770]; at pitch 0 no far row binds. The
+// far limit on the worked camera of SPEC §2 (pitch 60°, y_far = 40,
+// k·f = 4000√3 = 6928.2 px).
+func TestBindingEdgeEveryEdge(t *testing.T) {
+	d := viewport.NewDevice(400, 800, 60)
+	d.InsetLeftPx, d.InsetRightPx, d.InsetTopPx, d.InsetBottomPx = 60, 10, 20, 30
+	flat := mustPrepare(t, viewport.Camera{LatDeg: 10, LonDeg: 20, Zoom: 15, Device: d})
+	tilted := mustPrepare(t, viewport.Camera{LatDeg: 10, LonDeg: 20, PitchDeg: 60, Zoom: 15, Device: viewport.NewDevice(400, 800, 60)})
+	for _, c := range []struct {
+		v    *viewport.View
+		s    viewport.ScreenPoint
+		want string
+	}{
+		{&flat, viewport.ScreenPoint{X: 30, Y: 400, DepthPx: 1}, "left edge: x 30.0 px < 60.0 px"},
+		{&flat, viewport.ScreenPoint{X: 30, Y: 100, DepthPx: 1}, "left edge: x 30.0 px < 60.0 px"}, // −30 against the top's 80
+		{&flat, viewport.ScreenPoint{X: 70, Y: 10, DepthPx: 1}, "top edge: y 10.0 px < 20.0 px"},   // −10 against the left's 10
+		{&flat, viewport.ScreenPoint{X: 60, Y: 20, DepthPx: 1}, "left edge: x 60.0 px ≥ 60.0 px"},  // a tie: the first edge
+		{&flat, viewport.ScreenPoint{X: 60, Y: 400, DepthPx: 1}, "left edge: x 60.0 px ≥ 60.0 px"},
+		{&flat, viewport.ScreenPoint{X: 70, Y: 400, DepthPx: 1}, "left edge: x 70.0 px ≥ 60.0 px"},
+		{&flat, viewport.ScreenPoint{X: 395, Y: 400, DepthPx: 1}, "right edge: x 395.0 px > 390.0 px"},
+		{&flat, viewport.ScreenPoint{X: 390, Y: 400, DepthPx: 1}, "right edge: x 390.0 px ≤ 390.0 px"},
+		{&flat, viewport.ScreenPoint{X: 385, Y: 400, DepthPx: 1}, "right edge: x 385.0 px ≤ 390.0 px"},
+		{&flat, viewport.ScreenPoint{X: 200, Y: 10, DepthPx: 1}, "top edge: y 10.0 px < 20.0 px"},
+		{&flat, viewport.ScreenPoint{X: 200, Y: 20, DepthPx: 1}, "top edge: y 20.0 px ≥ 20.0 px"},
+		{&flat, viewport.ScreenPoint{X: 200, Y: 25, DepthPx: 1}, "top edge: y 25.0 px ≥ 20.0 px"},
+		{&flat, viewport.ScreenPoint{X: 200, Y: 775, DepthPx: 1}, "bottom edge: y 775.0 px > 770.0 px"},
+		{&flat, viewport.ScreenPoint{X: 200, Y: 770, DepthPx: 1}, "bottom edge: y 770.0 px ≤ 770.0 px"},
+		{&flat, viewport.ScreenPoint{X: 200, Y: 765, DepthPx: 1}, "bottom edge: y 765.0 px ≤ 770.0 px"},
+		{&tilted, viewport.ScreenPoint{X: 200, Y: 30, DepthPx: 7000}, "far limit: depth 7000.0 px > k·f 6928.2 px"},
+		{&tilted, viewport.ScreenPoint{X: 200, Y: 45, DepthPx: 6000}, "far limit: depth 6000.0 px ≤ k·f 6928.2 px"},
+		{&tilted, viewport.ScreenPoint{X: 200, Y: 400, DepthPx: 0}, "behind the camera: depth 0.0 px ≤ 0"},
+		{&tilted, viewport.ScreenPoint{X: 200, Y: 40, DepthPx: 10 * tilted.FocalPx()}, "far limit: depth 6928.2 px ≤ k·f 6928.2 px"},
+	} {
+		if got := c.v.BindingEdge(c.s); got != c.want {
+			t.Errorf("BindingEdge(%+v) = %q, want %q", c.s, got, c.want)
+		}
+	}
 }

@@ -40,7 +40,15 @@ and antimeridian routes, markers behind the user and past the route's end;
 hysteresis edges and turn overrides; cap contention and bucket edges), and
 writes one case a line: id, family, op, request, the reference's answer
 (expect) and its decision margins. The same seed, count and ops give the
-same bytes.`,
+same bytes.
+
+When -o names a corpus that exists, gen then says, on stderr, which cases
+changed against it, case by case: a decision that flipped (in view, side,
+bucket, null or not, an error code), numbers moved beyond the strict
+profile's tolerance or within it (rounding), another request under the
+same id, cases added or removed, margins alone; with the values that
+changed and by how much, so that a reviewer looks at each before the
+corpus is committed.`,
 		Example: `  viewspec fixtures gen --seed 1 --count 3000 -o corpus.jsonl
   viewspec fixtures gen --seed 7 --count 500 --ops project,footprint -o camera.jsonl`,
 		Args: cobra.NoArgs,
@@ -63,10 +71,28 @@ same bytes.`,
 			if err := corpus.CheckTarget(out); err != nil {
 				return &exitError{2, err}
 			}
+			// The corpus being replaced, if any, to tell the reviewer
+			// what the regeneration changed.
+			var before []corpus.Case
+			if _, err := os.Stat(out); err == nil {
+				if before, err = readCorpusFile(out); err != nil {
+					return err
+				}
+			}
 			if err := corpus.WriteFileAtomic(out, gen); err != nil {
 				return &exitError{2, err}
 			}
-			fmt.Fprintf(cmd.ErrOrStderr(), "%d cases written to %s (seed %d, %s)\n", n, out, seed, corpus.GenVersion)
+			stderr := cmd.ErrOrStderr()
+			fmt.Fprintf(stderr, "%d cases written to %s (seed %d, %s)\n", n, out, seed, corpus.GenVersion)
+			if before != nil {
+				after, err := readCorpusFile(out)
+				if err != nil {
+					return err
+				}
+				strict := check.Profiles["strict"]
+				fmt.Fprintf(stderr, "against the %s it replaced: ", out)
+				check.WriteCorpusChanges(stderr, check.CorpusChanges(before, after, &strict), len(after), &strict)
+			}
 			return nil
 		},
 	}
