@@ -261,6 +261,7 @@ func TestFootprintCompared(t *testing.T) {
 // with its differences in its output.
 func TestWriteJUnitOfAMix(t *testing.T) {
 	ck := check.NewChecker(check.Profiles["strict"])
+	ck.KeepCases = true // every case in the file, as --junit asks
 	ck.Check(onePoint("a", "plain", "40"), answer("a", 100, true))
 	ck.Check(onePoint("c", "edge", "1e-7"), answer("c", 100, false))
 	ck.Check(onePoint("d", "plain", "40"), answer("d", 100.5, true))
@@ -314,5 +315,25 @@ func TestWriteJUnitOfAMix(t *testing.T) {
 	}
 	if c.Failure != nil || !strings.HasPrefix(c.SystemOut, "borderline: screen[0].in_view: got false, want true") {
 		t.Errorf("case c: %+v, want a borderline pass with its difference", c)
+	}
+}
+
+// TestReportKeepsOnlyWhatDidNotPass: a checker that does not keep every
+// case (the default, so that memory does not grow with the corpus) lists
+// the cases not passed in NotPassed and in the JUnit file, none passed.
+func TestReportKeepsOnlyWhatDidNotPass(t *testing.T) {
+	ck := check.NewChecker(check.Profiles["strict"])
+	ck.Check(onePoint("a", "plain", "40"), answer("a", 100, true))
+	ck.Check(onePoint("d", "plain", "40"), answer("d", 100.5, true))
+	ck.Check(onePoint("f", "plain", "40"), nil)
+	r := ck.Report()
+	var b strings.Builder
+	if err := r.WriteJUnit(&b); err != nil {
+		t.Fatal(err)
+	}
+	if len(r.Cases) != 0 || len(r.NotPassed) != 2 || r.Counts.Pass != 1 ||
+		strings.Contains(b.String(), `name="a"`) || !strings.Contains(b.String(), `name="d"`) || !strings.Contains(b.String(), `name="f"`) {
+		t.Errorf("report keeps %d cases, %d not passed, counts %+v; JUnit:\n%s\nwant no case kept, d and f not passed and in the file, a counted only",
+			len(r.Cases), len(r.NotPassed), r.Counts, b.String())
 	}
 }
