@@ -219,8 +219,14 @@ const fieldsShown = 4
 
 // WriteCorpusChanges writes what a regeneration changed for a reviewer:
 // a count by kind with what each kind means, the changed cases by op, and
-// then each changed case with its kind, its verdict under the profile and
-// its first changed values (flips first, then the largest moves).
+// then each changed case (the first casesShown) with its kind, its verdict
+// under the profile and its first changed values (flips first, then the
+// largest moves).
+// casesShown is how many changed cases WriteCorpusChanges lists one by
+// one: a reviewer reads that many; more means a generator change, which
+// the counts by kind and op describe.
+const casesShown = 200
+
 func WriteCorpusChanges(w io.Writer, changes []CaseChange, total int, p *Profile) {
 	if len(changes) == 0 {
 		fmt.Fprintf(w, "no case changed (%d cases)\n", total)
@@ -248,7 +254,11 @@ func WriteCorpusChanges(w io.Writer, changes []CaseChange, total int, p *Profile
 		parts[i] = fmt.Sprintf("%s %d", op, byOp[op])
 	}
 	fmt.Fprintf(w, "  by op: %s\n", strings.Join(parts, ", "))
-	for _, c := range changes {
+	for i, c := range changes {
+		if i == casesShown {
+			fmt.Fprintf(w, "… and %d more changed cases\n", len(changes)-casesShown)
+			break
+		}
 		fmt.Fprintf(w, "%s (%s, %s): %s", c.ID, c.Op, c.Family, c.Kind)
 		if c.Kind == ChangeFlipped || c.Kind == ChangeBeyond || c.Kind == ChangeRounding {
 			fmt.Fprintf(w, ", %s under %s", c.Status, p.Name)

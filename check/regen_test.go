@@ -3,6 +3,7 @@ package check_test
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -171,5 +172,22 @@ func TestWriteCorpusChangesKinds(t *testing.T) {
 	}
 	if strings.Contains(got, "spaced") || strings.Contains(got, "and 0 more") {
 		t.Errorf("WriteCorpusChanges lists a change of spacing, or \"and 0 more\":\n%s", got)
+	}
+}
+
+// TestWriteCorpusChangesListsAtMost200: a regeneration that changes more
+// cases than a reviewer reads one by one lists the first 200 and says how
+// many more; the counts cover them all.
+func TestWriteCorpusChangesListsAtMost200(t *testing.T) {
+	var changes []check.CaseChange
+	for i := range 250 {
+		changes = append(changes, check.CaseChange{ID: fmt.Sprintf("c%03d", i), Op: "project", Family: "plain", Kind: check.ChangeAdded})
+	}
+	strict := check.Profiles["strict"]
+	var b strings.Builder
+	check.WriteCorpusChanges(&b, changes, 250, &strict)
+	out := b.String()
+	if n := strings.Count(out, ": added\n"); n != 200 || !strings.Contains(out, "… and 50 more changed cases\n") || !strings.Contains(out, "250 of 250 cases changed") {
+		t.Errorf("WriteCorpusChanges(250 added) lists %d cases:\n%s\nwant 200, then … and 50 more, counts of all 250", n, out)
 	}
 }

@@ -25,6 +25,9 @@ func newFixturesCmd() *cobra.Command {
 	return cmd
 }
 
+// maxComparedBytes is the largest corpus gen compares its output with.
+const maxComparedBytes = 64 << 20
+
 func newGenCmd() *cobra.Command {
 	var seed uint64
 	var count int
@@ -42,8 +45,8 @@ writes one case a line: id, family, op, request, the reference's answer
 (expect) and its decision margins. The same seed, count and ops give the
 same bytes.
 
-When -o names a corpus that exists, gen then says, on stderr, which cases
-changed against it, case by case: a decision that flipped (in view, side,
+When -o names a corpus that exists (up to 64 MB), gen then says, on
+stderr, which cases changed against it, case by case (the first 200): a decision that flipped (in view, side,
 bucket, null or not, an error code), numbers moved beyond the strict
 profile's tolerance or within it (rounding), another request under the
 same id, cases added or removed, margins alone; with the values that
@@ -74,9 +77,14 @@ corpus is committed.`,
 			// The corpus being replaced, if any, to tell the reviewer
 			// what the regeneration changed.
 			var before []corpus.Case
-			if _, err := os.Stat(out); err == nil {
-				if before, err = readCorpusFile(out); err != nil {
-					return err
+			compared := true
+			if st, err := os.Stat(out); err == nil {
+				// A corpus for review is small; a bulk one is only
+				// replaced, not read whole into memory.
+				if compared = st.Size() <= maxComparedBytes; compared {
+					if before, err = readCorpusFile(out); err != nil {
+						return err
+					}
 				}
 			}
 			if err := corpus.WriteFileAtomic(out, gen); err != nil {
@@ -84,6 +92,9 @@ corpus is committed.`,
 			}
 			stderr := cmd.ErrOrStderr()
 			fmt.Fprintf(stderr, "%d cases written to %s (seed %d, %s)\n", n, out, seed, corpus.GenVersion)
+			if !compared {
+				fmt.Fprintf(stderr, "not compared with the corpus it replaced: larger than %d MB\n", maxComparedBytes>>20)
+			}
 			if before != nil {
 				after, err := readCorpusFile(out)
 				if err != nil {
