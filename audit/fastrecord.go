@@ -124,6 +124,8 @@ func fastArray[T any](v *fastjson.Value, read func(e *fastjson.Value, t *T) bool
 
 // fastShown reads the display log.
 func fastShown(v *fastjson.Value) ([]*wireShown, bool) {
+	var ptrs []*float64
+	var vals []float64
 	return fastArray(v, func(e *fastjson.Value, s *wireShown) bool {
 		return fastwire.Object(e, shownKeys, func(i int, v *fastjson.Value) bool {
 			var ok bool
@@ -135,15 +137,16 @@ func fastShown(v *fastjson.Value) ([]*wireShown, bool) {
 			case 2:
 				s.ShownS, ok = fastwire.Number(v)
 			default:
-				s.IntervalsS, ok = fastIntervals(v)
+				s.IntervalsS, ok = fastIntervals(v, &ptrs, &vals)
 			}
 			return ok
 		})
 	})
 }
 
-// fastIntervals reads an array of arrays of numbers.
-func fastIntervals(v *fastjson.Value) ([][]*float64, bool) {
+// fastIntervals reads an array of arrays of numbers, their numbers in the
+// shared ptrs and vals (see fastwire.AppendNumbers).
+func fastIntervals(v *fastjson.Value, ptrs *[]*float64, vals *[]float64) ([][]*float64, bool) {
 	arr, err := v.Array()
 	if err != nil {
 		return nil, false
@@ -151,7 +154,7 @@ func fastIntervals(v *fastjson.Value) ([][]*float64, bool) {
 	out := make([][]*float64, len(arr))
 	for i, e := range arr {
 		var ok bool
-		if out[i], ok = fastwire.Numbers(e); !ok {
+		if out[i], ok = fastwire.AppendNumbers(e, ptrs, vals); !ok {
 			return nil, false
 		}
 	}
@@ -160,13 +163,18 @@ func fastIntervals(v *fastjson.Value) ([][]*float64, bool) {
 
 // fastPredicted reads the predictions.
 func fastPredicted(v *fastjson.Value) ([]*wirePrediction, bool) {
+	n := 0
+	if arr, err := v.Array(); err == nil {
+		n = 4 * len(arr)
+	}
+	ptrs, vals := make([]*float64, 0, n), make([]float64, 0, n)
 	return fastArray(v, func(e *fastjson.Value, p *wirePrediction) bool {
 		return fastwire.Object(e, predictedKeys, func(i int, v *fastjson.Value) bool {
 			var ok bool
 			if i == 0 {
 				p.ID, ok = fastString(v)
 			} else {
-				p.P, ok = fastwire.Numbers(v)
+				p.P, ok = fastwire.AppendNumbers(v, &ptrs, &vals)
 			}
 			return ok
 		})

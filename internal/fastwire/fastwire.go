@@ -141,6 +141,31 @@ func Fields(v *fastjson.Value, names []string, dst []**float64, store []float64)
 	})
 }
 
+// AppendNumbers appends an array of finite numbers to vals and pointers to
+// them to ptrs, and returns the pointers it appended (a slice of ptrs);
+// many small arrays so share two allocations.
+func AppendNumbers(v *fastjson.Value, ptrs *[]*float64, vals *[]float64) ([]*float64, bool) {
+	arr, err := v.Array()
+	if err != nil {
+		return nil, false
+	}
+	start := len(*ptrs)
+	for _, e := range arr {
+		f, ok := Float(e)
+		if !ok {
+			return nil, false
+		}
+		if len(*vals) == cap(*vals) {
+			// A new backing array; the pointers into the old one stay
+			// valid, the old array alive behind them.
+			*vals = make([]float64, 0, 2*cap(*vals)+4)
+		}
+		*vals = append(*vals, f)
+		*ptrs = append(*ptrs, &(*vals)[len(*vals)-1])
+	}
+	return (*ptrs)[start:len(*ptrs):len(*ptrs)], true
+}
+
 // Numbers returns an array of finite numbers.
 func Numbers(v *fastjson.Value) ([]*float64, bool) {
 	arr, err := v.Array()
