@@ -4,12 +4,14 @@ import (
 	"bytes"
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"runtime"
 	"slices"
 	"strings"
 	"testing"
+	"testing/iotest"
 
 	"pgregory.net/rapid"
 
@@ -210,4 +212,57 @@ func notPassed(r *check.Report) string {
 	}
 	slices.Sort(np)
 	return strings.Join(np, ", ")
+}
+
+// TestCheckStreamsMissingInCorpusOrder: cases left without an answer are
+// reported in the corpus's order once both streams end.
+func TestCheckStreamsMissingInCorpusOrder(t *testing.T) {
+	caseLines, answerLines := streamCorpus(t)
+	ck := check.NewChecker(check.Profiles["strict"])
+	err := check.CheckStreams("c.jsonl", strings.NewReader(strings.Join(caseLines[:5], "\n")), "a.jsonl", strings.NewReader(answerLines[2]), ck)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got []string
+	for _, c := range ck.Report().NotPassed {
+		got = append(got, c.ID+" "+c.Status.String())
+	}
+	var want []string
+	for i, l := range caseLines[:5] {
+		if i != 2 {
+			c, _ := corpus.ParseCase([]byte(l))
+			want = append(want, c.ID+" missing")
+		}
+	}
+	if !slices.Equal(got, want) {
+		t.Errorf("CheckStreams, one answer of five: not passed %v, want %v in corpus order", got, want)
+	}
+}
+
+// TestCheckStreamsReadFailures: a corpus that cannot be read to its end
+// ends the check with an error naming the file; an answer file that
+// cannot be read to its end leaves a stray line saying so, and the cases
+// after it missing.
+func TestCheckStreamsReadFailures(t *testing.T) {
+	caseLines, answerLines := streamCorpus(t)
+	broken := errors.New("disk on fire")
+	cases := strings.Join(caseLines[:3], "\n") + "\n"
+	answers := strings.Join(answerLines[:3], "\n") + "\n"
+
+	ck := check.NewChecker(check.Profiles["strict"])
+	err := check.CheckStreams("c.jsonl", io.MultiReader(strings.NewReader(cases), iotest.ErrReader(broken)), "a.jsonl", strings.NewReader(answers), ck)
+	var re *corpus.ReadError
+	if !errors.As(err, &re) || re.File != "c.jsonl" || !strings.Contains(re.Msg, "disk on fire") {
+		t.Errorf("CheckStreams(unreadable corpus) = %v, want a read error of c.jsonl saying why", err)
+	}
+
+	ck = check.NewChecker(check.Profiles["strict"])
+	half := strings.Join(answerLines[:1], "\n") + "\n"
+	if err := check.CheckStreams("c.jsonl", strings.NewReader(cases), "a.jsonl", io.MultiReader(strings.NewReader(half), iotest.ErrReader(broken)), ck); err != nil {
+		t.Fatal(err)
+	}
+	r := ck.Report()
+	if r.Counts.Pass != 1 || r.Counts.Missing != 2 || len(r.Stray) != 1 || !strings.Contains(r.Stray[0], "a.jsonl: reading stopped: disk on fire") {
+		t.Errorf("CheckStreams(unreadable answers) = counts %+v, stray %q; want 1 pass, 2 missing, a stray saying reading stopped", r.Counts, r.Stray)
+	}
 }
