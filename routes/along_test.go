@@ -3,10 +3,12 @@ package routes
 import (
 	"fmt"
 	"math"
+	"math/rand/v2"
 	"slices"
 	"testing"
 
 	"github.com/paulmach/orb"
+	"pgregory.net/rapid"
 )
 
 // equatorRoute lays segments of the given lengths eastwards along the equator from lon 0. Along the
@@ -273,6 +275,62 @@ func TestTurnsAtThreshold(t *testing.T) {
 	} {
 		if got := r.Turns(c.minDeg); !slices.Equal(got, c.want) {
 			t.Errorf("Turns(%v) = %v, want %v (a turn of exactly the threshold counts)", c.minDeg, got, c.want)
+		}
+	}
+}
+
+// TestRouteEndsExactly: the travel time to the route's end is its
+// duration, and the position reached after the whole duration is its
+// length, to the bit, whatever the segments' lengths and speeds (the sums
+// over the last segment could round a hair short otherwise, and a drive
+// that starts at the end would move).
+func TestRouteEndsExactly(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		seed := rapid.Uint64().Draw(t, "seed")
+		n := rapid.IntRange(2, 40).Draw(t, "vertices")
+		rng := rand.New(rand.NewPCG(seed, 7))
+		pts := cityRoute(rng, orb.Point{rapid.Float64Range(-170, 170).Draw(t, "lon"), rapid.Float64Range(-60, 60).Draw(t, "lat")}, n, 60)
+		speeds := make([]float64, len(pts)-1)
+		for i := range speeds {
+			speeds[i] = rapid.Float64Range(0.5, 40).Draw(t, "speed_mps")
+		}
+		r, err := New(pts, speeds)
+		if err != nil {
+			t.Skip(err.Error())
+		}
+		if got := r.TimeBetweenS(0, r.LengthM()); got != r.DurationS() {
+			t.Fatalf("TimeBetweenS(0, LengthM()) = %v, want DurationS() %v (off by %g, tolerance 0)", got, r.DurationS(), got-r.DurationS())
+		}
+		if got := r.AlongAfterS(0, r.DurationS()); got != r.LengthM() {
+			t.Fatalf("AlongAfterS(0, DurationS()) = %v, want LengthM() %v (off by %g, tolerance 0)", got, r.LengthM(), got-r.LengthM())
+		}
+	})
+}
+
+// TestSegmentClampsItsIndex: Segment takes any index, clamped into the
+// route's segments, as its doc says.
+func TestSegmentClampsItsIndex(t *testing.T) {
+	r, err := New([]orb.Point{{10, 50}, {10.001, 50}, {10.002, 50.001}}, []float64{10, 20})
+	if err != nil {
+		t.Fatal(err)
+	}
+	last := r.NumSegments() - 1
+	if got, want := r.Segment(last+5), r.Segment(last); got != want {
+		t.Errorf("Segment(%d) = %+v, want Segment(%d) %+v", last+5, got, last, want)
+	}
+	if got, want := r.Segment(-3), r.Segment(0); got != want {
+		t.Errorf("Segment(-3) = %+v, want Segment(0) %+v", got, want)
+	}
+}
+
+// TestVertexAtThePoles: latitudes ±90 and longitudes ±180 are valid
+// vertices (SPEC §1's ranges are closed).
+func TestVertexAtThePoles(t *testing.T) {
+	for _, pts := range [][]orb.Point{
+		{{0, -90}, {0, -89.99}}, {{0, 90}, {0, 89.99}}, {{-180, 10}, {-179.99, 10}}, {{180, 10}, {179.99, 10}},
+	} {
+		if r, err := New(pts, []float64{10}); err != nil || r == nil || r.NumSegments() != 1 {
+			t.Errorf("New(%v) = %v, %v; want a route of one segment", pts, r, err)
 		}
 	}
 }
