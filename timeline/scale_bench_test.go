@@ -2,7 +2,6 @@ package timeline_test
 
 import (
 	"fmt"
-	"math"
 	"math/rand/v2"
 	"testing"
 
@@ -26,18 +25,7 @@ import (
 func scaleDrive(b *testing.B, nVertices, nMarkers int) (timeline.Drive, []timeline.Marker) {
 	d, _ := benchDrive(b)
 	rng := rand.New(rand.NewPCG(uint64(nVertices), uint64(nMarkers)))
-	pts := make([]orb.Point, nVertices)
-	lat, lon, dir := 44.93, -31.17, 0.5
-	for i := range pts {
-		pts[i] = orb.Point{lon, lat}
-		dir += (rng.Float64() - 0.5) * 0.3
-		lat += 0.00027 * math.Cos(dir)
-		lon += 0.00027 * math.Sin(dir) / math.Cos(lat*math.Pi/180)
-	}
-	r, err := routes.New(pts, []float64{25})
-	if err != nil {
-		b.Fatal(err)
-	}
+	r := windingRoad(b, rng, nVertices)
 	// Markers within the first 4 km (a 120 s drive at 90 km/h is 3 km),
 	// so that every size of route sees the same density of markers.
 	reach := min(r.LengthM(), 4000)

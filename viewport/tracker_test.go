@@ -16,47 +16,58 @@ import (
 // ProjectMercator, each in-view point once in its list.
 func TestTrackerExact(t *testing.T) {
 	rapid.Check(t, func(t *rapid.T) {
-		c := props.Camera().Draw(t, "camera")
-		if _, err := viewport.Prepare(c); err != nil {
+		followDrawnView(t, 300, 1e6, func(spanM float64) float64 { return spanM / 10 }, 60, func(c *viewport.Camera) {
+			switch rapid.IntRange(0, 9).Draw(t, "change") {
+			case 0:
+				c.HeadingDeg = math.Mod(c.HeadingDeg+rapid.Float64Range(0, 30).Draw(t, "turn"), 360)
+			case 1:
+				c.Zoom = min(30, max(0, c.Zoom+rapid.Float64Range(-0.5, 0.5).Draw(t, "zoom_step")))
+			case 2:
+				c.PitchDeg = min(85, max(0, c.PitchDeg+rapid.Float64Range(-5, 5).Draw(t, "pitch_step")))
+			}
+		})
+	})
+}
+
+// followDrawnView draws a camera and up to maxPoints points within a span
+// (10 m to maxSpanM) of its user, then for up to maxSteps steps moves the
+// user ahead along the heading by a step drawn below maxStepM(span), lets
+// change turn, zoom or tilt the view, and has a tracker see it; it fails at
+// the first step where an answer is not ProjectMercator's.
+func followDrawnView(t *rapid.T, maxPoints int, maxSpanM float64, maxStepM func(spanM float64) float64, maxSteps int, change func(c *viewport.Camera)) {
+	c := props.Camera().Draw(t, "camera")
+	if _, err := viewport.Prepare(c); err != nil {
+		t.Skip(err.Error())
+	}
+	start := viewport.ToMercator(c.User())
+	n := rapid.IntRange(1, maxPoints).Draw(t, "points")
+	spanM := props.LogUniform(10, maxSpanM).Draw(t, "span_m")
+	pts := make([]viewport.Mercator, n)
+	for i := range pts {
+		pts[i] = viewport.Mercator{X: start.X + rapid.Float64Range(-1, 1).Draw(t, "dx")*spanM,
+			Y: start.Y + rapid.Float64Range(-1, 1).Draw(t, "dy")*spanM}
+	}
+	tr, bad := viewport.CheckedTracker(pts)
+	var v viewport.View
+	stepM := props.LogUniform(0.01, maxStepM(spanM)).Draw(t, "step_m")
+	for step := range rapid.IntRange(1, maxSteps).Draw(t, "steps") {
+		if step > 0 {
+			u := viewport.ToMercator(c.User())
+			h := c.HeadingDeg * math.Pi / 180
+			u.X += stepM * math.Sin(h)
+			u.Y += stepM * math.Cos(h)
+			ll := u.LatLon()
+			c.LatDeg, c.LonDeg = ll[1], ll[0]
+			change(&c)
+		}
+		if err := v.Place(c); err != nil {
 			t.Skip(err.Error())
 		}
-		start := viewport.ToMercator(c.User())
-		n := rapid.IntRange(1, 300).Draw(t, "points")
-		spanM := props.LogUniform(10, 1e6).Draw(t, "span_m")
-		pts := make([]viewport.Mercator, n)
-		for i := range pts {
-			pts[i] = viewport.Mercator{X: start.X + rapid.Float64Range(-1, 1).Draw(t, "dx")*spanM,
-				Y: start.Y + rapid.Float64Range(-1, 1).Draw(t, "dy")*spanM}
-		}
-		tr, bad := viewport.CheckedTracker(pts)
-		var v viewport.View
-		stepM := props.LogUniform(0.01, spanM/10).Draw(t, "step_m")
-		for step := range rapid.IntRange(1, 60).Draw(t, "steps") {
-			if step > 0 {
-				u := viewport.ToMercator(c.User())
-				h := c.HeadingDeg * math.Pi / 180
-				u.X += stepM * math.Sin(h)
-				u.Y += stepM * math.Cos(h)
-				ll := u.LatLon()
-				c.LatDeg, c.LonDeg = ll[1], ll[0]
-				switch rapid.IntRange(0, 9).Draw(t, "change") {
-				case 0:
-					c.HeadingDeg = math.Mod(c.HeadingDeg+rapid.Float64Range(0, 30).Draw(t, "turn"), 360)
-				case 1:
-					c.Zoom = min(30, max(0, c.Zoom+rapid.Float64Range(-0.5, 0.5).Draw(t, "zoom_step")))
-				case 2:
-					c.PitchDeg = min(85, max(0, c.PitchDeg+rapid.Float64Range(-5, 5).Draw(t, "pitch_step")))
-				}
-			}
-			if err := v.Place(c); err != nil {
-				t.Skip(err.Error())
-			}
-			tr.See(&v)
-		}
-		if k, i := bad(); k >= 0 {
-			t.Fatalf("step %d: the tracker's answer for point %d (%v) is not ProjectMercator's", k, i, pts[i])
-		}
-	})
+		tr.See(&v)
+	}
+	if k, i := bad(); k >= 0 {
+		t.Fatalf("step %d: the tracker's answer for point %d (%v) is not ProjectMercator's", k, i, pts[i])
+	}
 }
 
 // A marker's safe distance never exceeds how far the footprint must move to
@@ -107,43 +118,13 @@ func TestSafeDistanceWithinWrappedDistance(t *testing.T) {
 // ProjectMercator's answers at every step.
 func TestTrackerExactWhileTurning(t *testing.T) {
 	rapid.Check(t, func(t *rapid.T) {
-		c := props.Camera().Draw(t, "camera")
-		if _, err := viewport.Prepare(c); err != nil {
-			t.Skip(err.Error())
-		}
-		start := viewport.ToMercator(c.User())
-		n := rapid.IntRange(1, 200).Draw(t, "points")
-		spanM := props.LogUniform(10, 5e3).Draw(t, "span_m")
-		pts := make([]viewport.Mercator, n)
-		for i := range pts {
-			pts[i] = viewport.Mercator{X: start.X + rapid.Float64Range(-1, 1).Draw(t, "dx")*spanM,
-				Y: start.Y + rapid.Float64Range(-1, 1).Draw(t, "dy")*spanM}
-		}
-		tr, bad := viewport.CheckedTracker(pts)
-		var v viewport.View
-		stepM := props.LogUniform(0.01, 30).Draw(t, "step_m")
 		turnDeg := props.LogUniform(1e-6, 15).Draw(t, "turn_deg")
-		for step := range rapid.IntRange(1, 120).Draw(t, "steps") {
-			if step > 0 {
-				u := viewport.ToMercator(c.User())
-				h := c.HeadingDeg * math.Pi / 180
-				u.X += stepM * math.Sin(h)
-				u.Y += stepM * math.Cos(h)
-				ll := u.LatLon()
-				c.LatDeg, c.LonDeg = ll[1], ll[0]
-				turn := rapid.Float64Range(-turnDeg, turnDeg).Draw(t, "turn")
-				c.HeadingDeg = math.Mod(c.HeadingDeg+turn+360, 360)
-				if rapid.IntRange(0, 19).Draw(t, "zoom_change") == 0 {
-					c.Zoom = min(30, max(0, c.Zoom+rapid.Float64Range(-0.1, 0.1).Draw(t, "zoom_step")))
-				}
+		followDrawnView(t, 200, 5e3, func(float64) float64 { return 30 }, 120, func(c *viewport.Camera) {
+			turn := rapid.Float64Range(-turnDeg, turnDeg).Draw(t, "turn")
+			c.HeadingDeg = math.Mod(c.HeadingDeg+turn+360, 360)
+			if rapid.IntRange(0, 19).Draw(t, "zoom_change") == 0 {
+				c.Zoom = min(30, max(0, c.Zoom+rapid.Float64Range(-0.1, 0.1).Draw(t, "zoom_step")))
 			}
-			if err := v.Place(c); err != nil {
-				t.Skip(err.Error())
-			}
-			tr.See(&v)
-		}
-		if k, i := bad(); k >= 0 {
-			t.Fatalf("step %d: the tracker's answer for point %d (%v) is not ProjectMercator's", k, i, pts[i])
-		}
+		})
 	})
 }
