@@ -3,6 +3,7 @@ package check
 import (
 	"cmp"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"hash/maphash"
 	"io"
@@ -78,20 +79,10 @@ type answerItem struct {
 }
 
 // readCases parses the corpus's lines into batches on out, ending with an
-// error item if a line is unusable; it gives up when quit closes.
+// error item if a line is unusable or the file cannot be read on; it gives
+// up when quit closes.
 func readCases(name string, r io.Reader, out chan<- []caseItem, quit <-chan struct{}) {
-	defer close(out)
-	batch := make([]caseItem, 0, streamBatch)
-	send := func() bool {
-		select {
-		case out <- batch:
-			batch = make([]caseItem, 0, streamBatch)
-			return true
-		case <-quit:
-			return false
-		}
-	}
-	err := corpus.EachLine(r, func(line int, b []byte, tooLong bool) error {
+	readBatches(r, out, quit, func(line int, b []byte, tooLong bool) (caseItem, bool) {
 		it := caseItem{line: line}
 		if tooLong {
 			it.err = &corpus.ReadError{File: name, Line: line, Msg: fmt.Sprintf("longer than %d bytes", corpus.MaxLineBytes)}
@@ -100,41 +91,17 @@ func readCases(name string, r io.Reader, out chan<- []caseItem, quit <-chan stru
 		} else {
 			it.c = c
 		}
-		batch = append(batch, it)
-		if it.err != nil {
-			return it.err
-		}
-		if len(batch) == streamBatch && !send() {
-			return io.EOF
-		}
-		return nil
+		return it, it.err != nil
+	}, func(err error) caseItem {
+		return caseItem{err: &corpus.ReadError{File: name, Msg: err.Error()}}
 	})
-	if err != nil && err != io.EOF {
-		if _, isRead := err.(*corpus.ReadError); !isRead {
-			batch = append(batch, caseItem{err: &corpus.ReadError{File: name, Msg: err.Error()}})
-		}
-	}
-	if len(batch) > 0 {
-		send()
-	}
 }
 
 // readAnswers reads the answers' lines into batches on out (see
-// corpus.ReadAnswers for what makes a line unusable); it gives up when
-// quit closes.
+// corpus.ReadAnswers for what makes a line unusable), ending with a stray
+// line if the file cannot be read on; it gives up when quit closes.
 func readAnswers(name string, r io.Reader, out chan<- []answerItem, quit <-chan struct{}) {
-	defer close(out)
-	batch := make([]answerItem, 0, streamBatch)
-	send := func() bool {
-		select {
-		case out <- batch:
-			batch = make([]answerItem, 0, streamBatch)
-			return true
-		case <-quit:
-			return false
-		}
-	}
-	err := corpus.EachLine(r, func(line int, b []byte, tooLong bool) error {
+	readBatches(r, out, quit, func(line int, b []byte, tooLong bool) (answerItem, bool) {
 		var it answerItem
 		if tooLong {
 			it.bad = fmt.Sprintf("%s:%d: longer than %d bytes, not read", name, line, corpus.MaxLineBytes)
@@ -143,14 +110,44 @@ func readAnswers(name string, r io.Reader, out chan<- []answerItem, quit <-chan 
 		} else {
 			it.a = corpus.Answer{ID: id, Raw: append(json.RawMessage(nil), b...), Line: line}
 		}
+		return it, false
+	}, func(err error) answerItem {
+		return answerItem{bad: fmt.Sprintf("%s: reading stopped: %v", name, err)}
+	})
+}
+
+// errLast stops readBatches after an item that ends the stream.
+var errLast = errors.New("the last item")
+
+// readBatches sends r's lines, each made an item by item, in batches on
+// out, and closes out at the end: after an item that item marks last, or
+// after the item failed makes of a read error. It gives up when quit
+// closes.
+func readBatches[T any](r io.Reader, out chan<- []T, quit <-chan struct{}, item func(line int, b []byte, tooLong bool) (T, bool), failed func(error) T) {
+	defer close(out)
+	batch := make([]T, 0, streamBatch)
+	send := func() bool {
+		select {
+		case out <- batch:
+			batch = make([]T, 0, streamBatch)
+			return true
+		case <-quit:
+			return false
+		}
+	}
+	err := corpus.EachLine(r, func(line int, b []byte, tooLong bool) error {
+		it, last := item(line, b, tooLong)
 		batch = append(batch, it)
+		if last {
+			return errLast
+		}
 		if len(batch) == streamBatch && !send() {
 			return io.EOF
 		}
 		return nil
 	})
-	if err != nil && err != io.EOF {
-		batch = append(batch, answerItem{bad: fmt.Sprintf("%s: reading stopped: %v", name, err)})
+	if err != nil && err != io.EOF && err != errLast {
+		batch = append(batch, failed(err))
 	}
 	if len(batch) > 0 {
 		send()
