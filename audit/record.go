@@ -1,9 +1,13 @@
 package audit
 
 import (
+	"fmt"
 	"math"
+	"os"
+	"path/filepath"
 	"slices"
 	"sort"
+	"strings"
 
 	"github.com/paulmach/orb"
 
@@ -98,6 +102,37 @@ func (r *Record) Tag(key string) (string, bool) {
 // ProbabilitySumTol is how far a prediction's four probabilities may sum
 // from 1.
 const ProbabilitySumTol = 1e-6
+
+// ReadRuleDir reads every *.yaml in dir as a rule set named by its base
+// name (phone.yaml is "phone"): parsed, and as its text, which a
+// distributed run sends to its workers. An empty dir gives none; a dir
+// without rule files is an error, as is a file that does not parse.
+func ReadRuleDir(dir string) (RuleSets, map[string]string, error) {
+	sets, texts := RuleSets{}, map[string]string{}
+	if dir == "" {
+		return sets, texts, nil
+	}
+	files, err := filepath.Glob(filepath.Join(dir, "*.yaml"))
+	if err != nil {
+		return nil, nil, err
+	}
+	if len(files) == 0 {
+		return nil, nil, fmt.Errorf("--rules %s: no *.yaml rule files there", dir)
+	}
+	for _, f := range files {
+		data, err := os.ReadFile(f)
+		if err != nil {
+			return nil, nil, err
+		}
+		set, err := rules.Parse(data, f)
+		if err != nil {
+			return nil, nil, err
+		}
+		name := strings.TrimSuffix(filepath.Base(f), ".yaml")
+		sets[name], texts[name] = set, string(data)
+	}
+	return sets, texts, nil
+}
 
 // RuleSets resolves a record's rules_ref: a name to a rule set.
 type RuleSets map[string]*rules.Set

@@ -2,16 +2,12 @@ package fleet
 
 import (
 	"context"
-	"fmt"
-	"os"
-	"path/filepath"
-	"strings"
 
 	"github.com/apache/beam/sdks/v2/go/pkg/beam"
 	_ "github.com/apache/beam/sdks/v2/go/pkg/beam/io/filesystem/local" // local paths; the command adds the others
 	"github.com/apache/beam/sdks/v2/go/pkg/beam/register"
 
-	"github.com/viewspec/viewspec/rules"
+	"github.com/viewspec/viewspec/audit"
 )
 
 // Config is one audit run.
@@ -35,28 +31,8 @@ type Config struct {
 // (phone.yaml is "phone"), as `viewspec audit --rules` does, and checks that
 // each parses; "" gives none.
 func ReadRules(dir string) (map[string]string, error) {
-	sets := map[string]string{}
-	if dir == "" {
-		return sets, nil
-	}
-	files, err := filepath.Glob(filepath.Join(dir, "*.yaml"))
-	if err != nil {
-		return nil, err
-	}
-	if len(files) == 0 {
-		return nil, fmt.Errorf("--rules %s: no *.yaml rule files there", dir)
-	}
-	for _, f := range files {
-		data, err := os.ReadFile(f)
-		if err != nil {
-			return nil, err
-		}
-		if _, err := rules.Parse(data, f); err != nil {
-			return nil, err
-		}
-		sets[strings.TrimSuffix(filepath.Base(f), ".yaml")] = string(data)
-	}
-	return sets, nil
+	_, texts, err := audit.ReadRuleDir(dir)
+	return texts, err
 }
 
 func init() {

@@ -16,7 +16,6 @@ import (
 	"github.com/viewspec/viewspec/gate"
 	"github.com/viewspec/viewspec/internal/atomicfile"
 	"github.com/viewspec/viewspec/render"
-	"github.com/viewspec/viewspec/rules"
 )
 
 // auditMeasures are the summary's figures --fail-if may name.
@@ -114,35 +113,6 @@ Measures: ` + strings.Join(auditMeasures, ", ") + `.`,
 	return cmd
 }
 
-// loadRuleSets reads every *.yaml in dir as a rule set named by its base
-// name.
-func loadRuleSets(dir string) (audit.RuleSets, error) {
-	sets := audit.RuleSets{}
-	if dir == "" {
-		return sets, nil
-	}
-	files, err := filepath.Glob(filepath.Join(dir, "*.yaml"))
-	if err != nil {
-		return nil, err
-	}
-	if len(files) == 0 {
-		return nil, fmt.Errorf("--rules %s: no *.yaml rule files there", dir)
-	}
-	for _, f := range files {
-		data, err := os.ReadFile(f)
-		if err != nil {
-			return nil, err
-		}
-		name := strings.TrimSuffix(filepath.Base(f), ".yaml")
-		set, err := rules.Parse(data, f)
-		if err != nil {
-			return nil, err
-		}
-		sets[name] = set
-	}
-	return sets, nil
-}
-
 // run audits logs, prints the summary to stdout and bad records to stderr,
 // writes --out, and returns the summary; the error carries the exit code.
 func (a *auditCmd) run(stdout, stderr io.Writer, logs []string) (*audit.Summary, error) {
@@ -167,7 +137,7 @@ func (a *auditCmd) audit(stdout, stderr io.Writer, logs []string) (*audit.Summar
 			return nil, &exitError{2, err}
 		}
 	}
-	sets, err := loadRuleSets(a.rulesDir)
+	sets, _, err := audit.ReadRuleDir(a.rulesDir)
 	if err != nil {
 		return nil, &exitError{2, err}
 	}
