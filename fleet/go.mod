@@ -89,3 +89,5 @@ require (
 )
 
 replace github.com/viewspec/viewspec => ../
+
+replace github.com/santhosh-tekuri/jsonschema/v6 => ../third_party/jsonschema
