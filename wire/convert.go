@@ -3,12 +3,14 @@ package wire
 import (
 	"math"
 	"strconv"
+	"strings"
 
 	jsonv2 "github.com/go-json-experiment/json"
 	"github.com/go-json-experiment/json/jsontext"
 
 	"github.com/paulmach/orb"
 
+	"github.com/viewspec/viewspec/internal/fastwire"
 	"github.com/viewspec/viewspec/routes"
 	"github.com/viewspec/viewspec/spec"
 	"github.com/viewspec/viewspec/timeline"
@@ -278,29 +280,60 @@ func (w *Route) speeds(path string) ([]float64, error) {
 		v, err := number(raw, path)
 		return []float64{v}, err
 	case '[':
-		var items []jsontext.Value
-		if err := jsonv2.Unmarshal(raw, &items); err != nil {
-			return nil, &spec.FieldError{Kind: spec.BadType, Field: path, Reason: "expected a number or an array of numbers"}
+		if out, ok := plainNumbers(raw); ok {
+			return out, nil
 		}
-		out := make([]float64, len(items))
-		for i, it := range items {
-			at := spec.Index(path, i)
-			switch it.Kind() {
-			case 'n':
-				return nil, spec.Absent(at)
-			case '0':
-				v, err := number(it, at)
-				if err != nil {
-					return nil, err
-				}
-				out[i] = v
-			default:
-				return nil, &spec.FieldError{Kind: spec.BadType, Field: at, Reason: "expected a number"}
-			}
-		}
-		return out, nil
+		return numbersArray(raw, path)
 	}
 	return nil, &spec.FieldError{Kind: spec.BadType, Field: path, Reason: "expected a number or an array of numbers"}
+}
+
+// numbersArray reads a JSON array of numbers with the general decoder,
+// naming the first item that is not one.
+func numbersArray(raw jsontext.Value, path string) ([]float64, error) {
+	var items []jsontext.Value
+	if err := jsonv2.Unmarshal(raw, &items); err != nil {
+		return nil, &spec.FieldError{Kind: spec.BadType, Field: path, Reason: "expected a number or an array of numbers"}
+	}
+	out := make([]float64, len(items))
+	for i, it := range items {
+		switch it.Kind() {
+		case 'n':
+			return nil, spec.Absent(spec.Index(path, i))
+		case '0':
+			v, err := number(it, spec.Index(path, i))
+			if err != nil {
+				return nil, err
+			}
+			out[i] = v
+		default:
+			return nil, &spec.FieldError{Kind: spec.BadType, Field: spec.Index(path, i), Reason: "expected a number"}
+		}
+	}
+	return out, nil
+}
+
+// plainNumbers reads a compact array of finite JSON numbers without the
+// general decoder (a route's speeds, one per segment); ok is false for
+// anything else, which the general path reads and words the errors of.
+func plainNumbers(raw []byte) (out []float64, ok bool) {
+	if len(raw) < 2 || raw[0] != '[' || raw[len(raw)-1] != ']' {
+		return nil, false
+	}
+	body := string(raw[1 : len(raw)-1])
+	out = make([]float64, 0, strings.Count(body, ",")+1)
+	for len(body) > 0 {
+		item, rest, more := strings.Cut(body, ",")
+		if !fastwire.IsNumber(item) || (more && rest == "") {
+			return nil, false
+		}
+		v, err := strconv.ParseFloat(item, 64)
+		if err != nil {
+			return nil, false
+		}
+		out, body = append(out, v), rest
+	}
+	return out, true
 }
 
 // number reads a JSON number; one beyond the double range is an invalid

@@ -192,10 +192,16 @@ func appendCamera(b []byte, c *Camera) ([]byte, bool) {
 		}
 	}
 	b = append(b, `,"device":`...)
-	d := c.Device
+	b, good := appendDevice(b, c.Device)
+	return append(b, '}'), ok && good
+}
+
+// appendDevice appends a device object, or null.
+func appendDevice(b []byte, d *Device) ([]byte, bool) {
 	if d == nil {
-		return append(b, "null}"...), ok
+		return append(b, "null"...), true
 	}
+	ok := true
 	b = append(b, '{')
 	for i, f := range [...]struct {
 		key  string
@@ -214,57 +220,273 @@ func appendCamera(b []byte, c *Camera) ([]byte, bool) {
 			ok = false
 		}
 	}
-	return append(b, "}}"...), ok
+	return append(b, '}'), ok
 }
 
-// fastRequest encodes a camera-op request by hand (the bulk of a corpus),
-// and reports false for any other request.
+// fastRequest encodes a request by hand, every op's fields, and reports
+// false for what it cannot write exactly as encoding/json would (a
+// non-finite number, a raw value that is not compact JSON, a string that
+// needs escaping), which then goes the slow way.
 func fastRequest(r *Request) ([]byte, bool) {
-	if r.Route != nil || r.User != nil || r.Markers != nil || r.Rules != nil || r.Samples != nil || r.Device != nil ||
-		r.StartAlongM != nil || r.HorizonS != nil || r.TickS != nil || r.Cap != nil || r.BucketEdgesS != nil {
+	if !plainString(r.Op) {
 		return nil, false
 	}
 	b := make([]byte, 0, 512)
-	b = append(b, `{"op":`...)
-	b = AppendString(b, r.Op)
-	if len(r.ID) > 0 {
-		if bytes.ContainsAny(r.ID, " \t\r\n") {
-			return nil, false
-		}
-		b = append(b, `,"id":`...)
-		b = append(b, r.ID...)
-	}
+	b = append(b, `{"op":"`...)
+	b = append(b, r.Op...)
+	b = append(b, '"')
 	ok := true
+	// good folds one part's verdict into ok.
+	good := func(bb []byte, g bool) { b, ok = bb, ok && g }
+	if len(r.ID) > 0 {
+		b = append(b, `,"id":`...)
+		good(appendRaw(b, r.ID))
+	}
 	if r.Camera != nil {
 		b = append(b, `,"camera":`...)
-		b, ok = appendCamera(b, r.Camera)
+		good(appendCamera(b, r.Camera))
 	}
 	if len(r.Points) > 0 {
-		var good bool
-		b, good = appendPairs(b, "points", "lat", "lon", len(r.Points), func(i int) (x, y *float64, null bool) {
-			p := r.Points[i]
-			if p == nil {
-				return nil, nil, true
-			}
-			return p.Lat, p.Lon, false
-		})
-		ok = ok && good
+		good(appendPoints(b, "points", r.Points))
 	}
 	if len(r.Pixels) > 0 {
-		var good bool
-		b, good = appendPairs(b, "pixels", "x", "y", len(r.Pixels), func(i int) (x, y *float64, null bool) {
+		good(appendPairs(b, "pixels", "x", "y", len(r.Pixels), func(i int) (x, y *float64, null bool) {
 			p := r.Pixels[i]
 			if p == nil {
 				return nil, nil, true
 			}
 			return p.X, p.Y, false
-		})
-		ok = ok && good
+		}))
+	}
+	if r.Route != nil {
+		b = append(b, `,"route":{`...)
+		if r.Route.Points == nil {
+			b = append(b, `"points":null`...)
+		} else {
+			// appendPoints writes ,"points":[…]; the route's first field
+			// has no comma before it.
+			at := len(b)
+			good(appendPoints(b, "points", r.Route.Points))
+			b = append(b[:at], b[at+1:]...)
+		}
+		b = append(b, `,"speed_mps":`...)
+		if r.Route.SpeedMps == nil {
+			b = append(b, "null"...)
+		} else {
+			good(appendRaw(b, r.Route.SpeedMps))
+		}
+		b = append(b, '}')
+	}
+	if r.User != nil {
+		b = append(b, `,"user":`...)
+		good(appendPoint(b, r.User))
+	}
+	if len(r.Markers) > 0 {
+		b = append(b, `,"markers":[`...)
+		for i, m := range r.Markers {
+			if i > 0 {
+				b = append(b, ',')
+			}
+			good(appendMarker(b, m))
+		}
+		b = append(b, ']')
+	}
+	if r.Rules != nil {
+		b = append(b, `,"rules":`...)
+		good(appendRules(b, r.Rules))
+	}
+	if len(r.Samples) > 0 {
+		b = append(b, `,"samples":[`...)
+		for i, s := range r.Samples {
+			if i > 0 {
+				b = append(b, ',')
+			}
+			if s == nil {
+				b = append(b, "null"...)
+				continue
+			}
+			good(appendNums(b, [...]string{"t_s", "speed_mps", "turn_dist_m"}, [...]*float64{s.TS, s.SpeedMps, s.TurnDistM}))
+		}
+		b = append(b, ']')
+	}
+	if r.Device != nil {
+		b = append(b, `,"device":`...)
+		good(appendDevice(b, r.Device))
+	}
+	for _, f := range [...]struct {
+		key string
+		p   *float64
+	}{{"start_along_m", r.StartAlongM}, {"horizon_s", r.HorizonS}, {"tick_s", r.TickS}, {"cap", r.Cap}} {
+		if f.p != nil {
+			good(appendKeyNum(b, f.key, f.p, false))
+		}
+	}
+	if len(r.BucketEdgesS) > 0 {
+		good(appendOptNums(b, "bucket_edges_s", r.BucketEdgesS, false))
+	}
+	if r.Trace != nil {
+		b = append(b, `,"trace":`...)
+		b = strconv.AppendBool(b, *r.Trace)
+	}
+	if len(r.Fixes) > 0 {
+		b = append(b, `,"fixes":[`...)
+		for i, f := range r.Fixes {
+			if i > 0 {
+				b = append(b, ',')
+			}
+			if f == nil {
+				b = append(b, "null"...)
+				continue
+			}
+			good(appendNums(b, [...]string{"t_s", "lat", "lon"}, [...]*float64{f.TS, f.Lat, f.Lon}))
+		}
+		b = append(b, ']')
 	}
 	if !ok {
 		return nil, false
 	}
 	return append(b, '}'), true
+}
+
+// plainString reports whether s is written as a JSON string by quoting it
+// alone, with nothing to escape (encoding/json's escapes differ between
+// its encoder settings; anything else goes the slow way).
+func plainString(s string) bool {
+	for i := 0; i < len(s); i++ {
+		if c := s[i]; c < 0x20 || c >= 0x7f || c == '"' || c == '\\' || c == '<' || c == '>' || c == '&' {
+			return false
+		}
+	}
+	return true
+}
+
+// appendRaw appends a raw JSON value as encoding/json writes a
+// json.RawMessage: as it is when it is valid and compact; reported false
+// otherwise (encoding/json compacts it, or fails).
+func appendRaw(b, raw []byte) ([]byte, bool) {
+	if bytes.ContainsAny(raw, " \t\r\n") || !json.Valid(raw) {
+		return b, false
+	}
+	return append(b, raw...), true
+}
+
+// appendNums appends an object of numeric fields, none omitted when empty.
+func appendNums[K ~[3]string, P ~[3]*float64](b []byte, keys K, ps P) ([]byte, bool) {
+	b = append(b, '{')
+	ok := true
+	for i := range keys {
+		var g bool
+		b, g = appendKeyNum(b, keys[i], ps[i], i == 0)
+		ok = ok && g
+	}
+	return append(b, '}'), ok
+}
+
+// appendPoint appends a point object, or null.
+func appendPoint(b []byte, p *Point) ([]byte, bool) {
+	if p == nil {
+		return append(b, "null"...), true
+	}
+	b = append(b, '{')
+	b, g1 := appendKeyNum(b, "lat", p.Lat, true)
+	b, g2 := appendKeyNum(b, "lon", p.Lon, false)
+	return append(b, '}'), g1 && g2
+}
+
+// appendPoints appends ,"key":[…points…].
+func appendPoints(b []byte, key string, ps []*Point) ([]byte, bool) {
+	return appendPairs(b, key, "lat", "lon", len(ps), func(i int) (x, y *float64, null bool) {
+		p := ps[i]
+		if p == nil {
+			return nil, nil, true
+		}
+		return p.Lat, p.Lon, false
+	})
+}
+
+// appendMarker appends a marker object, or null.
+func appendMarker(b []byte, m *Marker) ([]byte, bool) {
+	if m == nil {
+		return append(b, "null"...), true
+	}
+	b = append(b, `{"id":`...)
+	switch {
+	case m.ID == nil:
+		b = append(b, "null"...)
+	case !plainString(*m.ID):
+		return b, false
+	default:
+		b = append(b, '"')
+		b = append(b, *m.ID...)
+		b = append(b, '"')
+	}
+	b, g1 := appendKeyNum(b, "lat", m.Lat, false)
+	b, g2 := appendKeyNum(b, "lon", m.Lon, false)
+	ok := g1 && g2
+	if m.Priority != nil {
+		var g bool
+		b, g = appendKeyNum(b, "priority", m.Priority, false)
+		ok = ok && g
+	}
+	return append(b, '}'), ok
+}
+
+// appendRules appends a rules object.
+func appendRules(b []byte, w *Rules) ([]byte, bool) {
+	b = append(b, `{"bands":`...)
+	ok := true
+	if w.Bands == nil {
+		b = append(b, "null"...)
+	} else {
+		b = append(b, '[')
+		for i, bd := range w.Bands {
+			if i > 0 {
+				b = append(b, ',')
+			}
+			if bd == nil {
+				b = append(b, "null"...)
+				continue
+			}
+			b = append(b, '{')
+			first := true
+			if bd.BelowKmh != nil {
+				var g bool
+				b, g = appendKeyNum(b, "below_kmh", bd.BelowKmh, true)
+				ok, first = ok && g, false
+			}
+			var g1, g2 bool
+			b, g1 = appendKeyNum(b, "zoom", bd.Zoom, first)
+			b, g2 = appendKeyNum(b, "pitch_deg", bd.PitchDeg, false)
+			b = append(b, '}')
+			ok = ok && g1 && g2
+		}
+		b = append(b, ']')
+	}
+	for _, f := range [...]struct {
+		key string
+		p   *float64
+	}{{"hysteresis_kmh", w.HysteresisKmh}, {"max_zoom_rate_per_s", w.MaxZoomRatePerS}, {"max_pitch_rate_deg_per_s", w.MaxPitchRateDegPerS}} {
+		var g bool
+		b, g = appendKeyNum(b, f.key, f.p, false)
+		ok = ok && g
+	}
+	b = append(b, `,"turn":`...)
+	if t := w.Turn; t == nil {
+		b = append(b, "null"...)
+	} else {
+		var g bool
+		b, g = appendNums(b, [...]string{"within_m", "min_angle_deg", "zoom"}, [...]*float64{t.WithinM, t.MinAngleDeg, t.Zoom})
+		ok = ok && g
+	}
+	for _, f := range [...]struct {
+		key string
+		p   *float64
+	}{{"min_zoom", w.MinZoom}, {"max_zoom", w.MaxZoom}, {"max_turn_rate_deg_per_s", w.MaxTurnRateDegPerS}} {
+		var g bool
+		b, g = appendKeyNum(b, f.key, f.p, false)
+		ok = ok && g
+	}
+	return append(b, '}'), ok
 }
 
 // appendPairs appends ,"key":[{"k1":x,"k2":y},…] for n entries, null where

@@ -95,6 +95,7 @@ Measures: ` + strings.Join(auditMeasures, ", ") + `.`,
   viewspec audit day.jsonl --rules rules/ --json --fail-if 'disagree_pct > 0.5'`,
 		Args: cobra.MinimumNArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
+			computeHeavyGC()
 			a.bar = auditBar(cmd, args)
 			_, err := a.run(cmd.OutOrStdout(), cmd.ErrOrStderr(), args)
 			return err

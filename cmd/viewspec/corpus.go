@@ -56,6 +56,7 @@ corpus is committed.`,
   viewspec fixtures gen --seed 7 --count 500 --ops project,footprint -o camera.jsonl`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
+			computeHeavyGC()
 			only, err := corpus.OpsIn(opsList)
 			if err != nil {
 				return &exitError{2, fmt.Errorf("--ops: %v", err)}

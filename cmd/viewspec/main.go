@@ -21,6 +21,20 @@ import (
 
 func main() { os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr)) }
 
+// computeHeavyGC lets the heap grow 400% between garbage collections,
+// rather than Go's default 100%, for a command that computes a lot per
+// item it streams (fixtures gen, audit): its live heap stays a few
+// megabytes while it allocates fast, and at 100% the collector took a
+// quarter of its time (fixtures gen, 40k timeline cases: 2.04 s at 100%,
+// 1.58 s at 400%, peak memory 32 MB and 48 MB). The commands held to
+// constant memory (check, run, validate) keep the default. GOGC in the
+// environment decides when it is set.
+func computeHeavyGC() {
+	if os.Getenv("GOGC") == "" {
+		debug.SetGCPercent(400)
+	}
+}
+
 // exitError carries an exit code other than 1 out of a command.
 type exitError struct {
 	code int
