@@ -8,8 +8,10 @@ import (
 )
 
 // Hand-written encoders for the camera ops' answers, the bulk of any
-// stream: the same bytes as encoding/json writes for these types (the test
-// TestFastEncodersMatch holds them to it), several times faster.
+// stream, their margins, and every op's requests (what fixtures gen and
+// the prober write): the same bytes as encoding/json writes for these
+// types (TestFastEncodersMatch and the TestFastRequestEncoder tests hold
+// them to it), several times faster.
 
 // appendFloat appends f as encoding/json writes a float64: the shortest
 // digits that read back to f, in plain notation from 1e-6 to 1e21 and in
