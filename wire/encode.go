@@ -576,11 +576,9 @@ func fastMargins(m *Margins) ([]byte, bool) {
 // AppendString appends s as a JSON string, as encoding/json writes it
 // (which escapes <, > and & too).
 func AppendString(b []byte, s string) []byte {
-	for i := 0; i < len(s); i++ {
-		if c := s[i]; c < 0x20 || c >= 0x7f || c == '"' || c == '\\' || c == '<' || c == '>' || c == '&' {
-			q, _ := json.Marshal(s)
-			return append(b, q...)
-		}
+	if !plainString(s) {
+		q, _ := json.Marshal(s)
+		return append(b, q...)
 	}
 	b = append(b, '"')
 	b = append(b, s...)
