@@ -215,8 +215,9 @@ func newRun(d *Drive, ms []Marker) (*driveRun, error) {
 func markerPoints(ms []Marker) ([]viewport.Mercator, error) {
 	merc := make([]viewport.Mercator, len(ms))
 	for i, m := range ms {
-		if err := spec.CheckLatLon(spec.Index("markers", i), m.Point[1], m.Point[0]); err != nil {
-			return nil, err
+		// The path is formatted only when the check fails.
+		if spec.CheckLatLon("", m.Point[1], m.Point[0]) != nil {
+			return nil, spec.CheckLatLon(spec.Index("markers", i), m.Point[1], m.Point[0])
 		}
 		if math.IsNaN(m.Priority) || math.IsInf(m.Priority, 0) {
 			return nil, spec.Out(spec.Index("markers", i)+".priority", m.Priority, "priority must be finite")
@@ -276,6 +277,7 @@ func newDriveRun(d *Drive, ms []Marker, merc []viewport.Mercator) *driveRun {
 		out:     make([]Result, len(merc)),
 		shown:   make([]int, 0, min(d.Cap, len(ms))),
 		isIn:    make([]bool, len(ms)),
+		waiting: make([]int, 0, len(ms)),
 		seen:    viewport.NewTracker(merc),
 		turnMin: math.Inf(1),
 	}
