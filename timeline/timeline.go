@@ -324,10 +324,16 @@ func (r *driveRun) run() ([]Result, error) {
 			heading = rules.TurnHeadingDeg(heading, target, step)
 		}
 		pos := walk.PointAt(along)
-		cam.LatDeg, cam.LonDeg = pos[1], pos[0]
-		cam.HeadingDeg, cam.PitchDeg, cam.Zoom = heading, st.PitchDeg(), st.Zoom()
 		v := &views[k&1]
-		if err := v.Place(cam); err != nil {
+		var err error
+		if k < len(views) { // each view's first placing, with the device
+			cam.LatDeg, cam.LonDeg = pos[1], pos[0]
+			cam.HeadingDeg, cam.PitchDeg, cam.Zoom = heading, st.PitchDeg(), st.Zoom()
+			err = v.Place(cam)
+		} else {
+			err = v.Move(pos[1], pos[0], heading, st.PitchDeg(), st.Zoom())
+		}
+		if err != nil {
 			return nil, fmt.Errorf("at t = %s s: %w", spec.FormatNumber(t), err)
 		}
 		r.tick(k, t, v)

@@ -80,16 +80,23 @@ func (c *Camera) checkAnchor(f, sinP, cosP float64) error {
 	return nil
 }
 
+// attitudeOK reports whether the fields that place and turn the camera
+// (lat, lon, heading, pitch, zoom) are within their ranges; false for NaN,
+// whose every comparison is false, and for ±Inf, which fails its bound.
+func (c *Camera) attitudeOK() bool {
+	return c.LatDeg >= -90 && c.LatDeg <= 90 && c.LonDeg >= -180 && c.LonDeg <= 180 &&
+		c.HeadingDeg >= 0 && c.HeadingDeg < 360 && c.PitchDeg >= 0 && c.PitchDeg < 90 &&
+		c.Zoom >= 0 && c.Zoom <= 30
+}
+
 // validateFields checks every field's own range (no trigonometry), with a
 // fast path: one pass of comparisons, and the table below only to name the
 // first failure.
 func (c *Camera) validateFields() error {
-	d := c.Device
+	d := &c.Device
 	// Each comparison is false for NaN, so NaN fails here too; ±Inf fails
 	// its bound or the explicit finiteness tests.
-	if c.LatDeg >= -90 && c.LatDeg <= 90 && c.LonDeg >= -180 && c.LonDeg <= 180 &&
-		c.HeadingDeg >= 0 && c.HeadingDeg < 360 && c.PitchDeg >= 0 && c.PitchDeg < 90 &&
-		c.Zoom >= 0 && c.Zoom <= 30 &&
+	if c.attitudeOK() &&
 		d.WidthPx > 0 && d.WidthPx <= MaxScreenPx && d.HeightPx > 0 && d.HeightPx <= MaxScreenPx &&
 		d.FovYDeg > 0 && d.FovYDeg < 180 && (d.TilePx == 256 || d.TilePx == 512) &&
 		d.AnchorX >= 0 && d.AnchorX <= 1 && d.AnchorY >= 0 && d.AnchorY <= 1 &&

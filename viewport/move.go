@@ -1,6 +1,9 @@
 package viewport
 
-import "math"
+import (
+	"errors"
+	"math"
+)
 
 // Place prepares v for camera c as Prepare does, keeping the terms whose
 // inputs did not change since v was last placed. A moving view (a drive)
@@ -16,6 +19,27 @@ func (v *View) Place(c Camera) error {
 	}
 	return v.place(&c)
 }
+
+// Move places v, placed before, for a new position and attitude of the
+// same device: Place with v's own device, which is known valid, so that
+// only the five fields that change are checked. A drive moves its views
+// at every tick. It is an error to move a view that is not placed (never
+// placed, or left unplaced by an error); on an error v is left unplaced.
+func (v *View) Move(latDeg, lonDeg, headingDeg, pitchDeg, zoom float64) error {
+	if !(v.focal > 0) {
+		return errNotPlaced
+	}
+	c := v.cam
+	c.LatDeg, c.LonDeg, c.HeadingDeg, c.PitchDeg, c.Zoom = latDeg, lonDeg, headingDeg, pitchDeg, zoom
+	if !c.attitudeOK() {
+		v.focal = 0
+		return c.validateFields() // names the field
+	}
+	return v.placeKnown(&c, true)
+}
+
+// errNotPlaced is Move's error for a view that is not placed.
+var errNotPlaced = errors.New("viewport: Move needs a view placed with Place or Prepare")
 
 // place prepares v for c, whose fields are known valid (validateFields):
 // everything but the anchor's horizon check, which depends on the pitch and

@@ -718,3 +718,69 @@ func TestBindingEdgeEveryEdge(t *testing.T) {
 		}
 	}
 }
+
+// Moving a view is placing it for the same device: the same View, to the
+// bit, as Prepare gives, the same errors, and after an error the view is
+// not placed until Place or Prepare places it again.
+func TestMoveIsPrepare(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		c := props.Camera().Draw(t, "camera")
+		v, err := viewport.Prepare(c)
+		if err != nil {
+			t.Skip("an anchor above the horizon: nothing to move")
+		}
+		placed := true
+		for step := range rapid.IntRange(1, 6).Draw(t, "steps") {
+			next := props.Camera().Draw(t, "next")
+			next.Device = c.Device
+			for _, keep := range []struct {
+				name     string
+				from, to *float64
+			}{{"keep_pitch", &c.PitchDeg, &next.PitchDeg}, {"keep_zoom", &c.Zoom, &next.Zoom},
+				{"keep_heading", &c.HeadingDeg, &next.HeadingDeg}, {"keep_lat", &c.LatDeg, &next.LatDeg}, {"keep_lon", &c.LonDeg, &next.LonDeg}} {
+				if rapid.Bool().Draw(t, keep.name) {
+					*keep.to = *keep.from
+				}
+			}
+			if rapid.IntRange(0, 5).Draw(t, "bad") == 0 {
+				// One field out of range (the values are hand-picked
+				// just outside each range, or NaN).
+				bad := rapid.SampledFrom([]struct {
+					p *float64
+					v float64
+				}{{&next.LatDeg, 90.000001}, {&next.LonDeg, -180.5}, {&next.HeadingDeg, 360}, {&next.PitchDeg, 90},
+					{&next.Zoom, 30.1}, {&next.Zoom, math.NaN()}, {&next.LatDeg, math.Inf(-1)}}).Draw(t, "which")
+				*bad.p = bad.v
+			}
+			want, wantErr := viewport.Prepare(next)
+			err := v.Move(next.LatDeg, next.LonDeg, next.HeadingDeg, next.PitchDeg, next.Zoom)
+			switch {
+			case !placed:
+				if err == nil {
+					t.Fatalf("step %d: moved a view left unplaced by an error", step)
+				}
+				if err = v.Place(next); (err != nil) != (wantErr != nil) {
+					t.Fatalf("step %d: placed: %v; prepared: %v", step, err, wantErr)
+				}
+			case (err != nil) != (wantErr != nil):
+				t.Fatalf("step %d: moved: %v; prepared: %v", step, err, wantErr)
+			case err != nil && err.Error() != wantErr.Error():
+				t.Fatalf("step %d: moved: %v; prepared: %v (the same error wanted)", step, err, wantErr)
+			}
+			if placed = err == nil; placed {
+				if v != want {
+					t.Fatalf("step %d: moved\n%+v\nprepared\n%+v", step, v, want)
+				}
+				c = next
+			}
+		}
+	})
+}
+
+// A view never placed cannot be moved: there is no device to keep.
+func TestMoveUnplaced(t *testing.T) {
+	var v viewport.View
+	if err := v.Move(0, 0, 0, 0, 10); err == nil {
+		t.Fatalf("Move of a zero View = nil, want an error")
+	}
+}
