@@ -1,7 +1,9 @@
 package routes
 
 import (
+	"fmt"
 	"math"
+	"math/cmplx"
 	"testing"
 )
 
@@ -108,5 +110,138 @@ func TestFallbackSeriesOrder(t *testing.T) {
 	for l := 1; l <= kOrder; l++ {
 		ratio("C1_"+string(rune('0'+l)), c1x[l], c1y[l])
 		ratio("C2_"+string(rune('0'+l)), c2x[l], c2y[l])
+	}
+}
+
+// TestFallbackSeriesCoefficients checks each coefficient of A3 and C3 (Karney 2013, eqs. 24–25),
+// not only their sums at WGS84's small ε, where a wrong high-order term hides below rounding. The
+// coefficient of ε^k is taken from the quadrature of I3's integrand (as in
+// TestFallbackSeriesAgainstQuadrature) at complex ε on the circle |ε| = 0.05, by Cauchy's formula
+// a_k = (1/2π) ∮ A(ε) ε^−k dθ (32 points, exact to about 1e-16/0.05^k: the series converges for
+// |ε| < 3 − 2√2 ≈ 0.17). The series keep the terms ε^k·n^j of total order k + j ≤ 5, so the
+// coefficient of ε^k must match within the first left-out term, of order n^(6−k) (its factor is
+// below 0.3 here). Source of the expected values: the quadrature itself.
+func TestFallbackSeriesCoefficients(t *testing.T) {
+	const nq, m, r = 256, 32, 0.05
+	var a3 [kOrder]complex128
+	var c3 [kOrder][kOrder]complex128
+	for j := range m {
+		th := 2 * math.Pi * float64(j) / m
+		eps := cmplx.Rect(r, th)
+		k2 := 4 * eps / ((1 - eps) * (1 - eps)) // the k² whose ε (eq. 16) is eps
+		var g [kOrder]complex128                // Fourier cosine coefficients of I3's integrand
+		for i := range nq {
+			s := math.Pi * (float64(i) + 0.5) / nq
+			sin2 := complex(math.Sin(s)*math.Sin(s), 0)
+			v := complex(2-wgs84F, 0) / (1 + complex(1-wgs84F, 0)*cmplx.Sqrt(1+k2*sin2))
+			for l := range kOrder {
+				g[l] += v * complex(math.Cos(2*float64(l)*s), 0)
+			}
+		}
+		g[0] /= nq
+		for l := 1; l < kOrder; l++ {
+			g[l] *= 2.0 / nq
+		}
+		for k := range kOrder {
+			w := cmplx.Rect(1/(math.Pow(r, float64(k))*m), -float64(k)*th)
+			a3[k] += g[0] * w
+			for l := 1; l < kOrder; l++ {
+				c3[l][k] += g[l] / (complex(2*float64(l), 0) * g[0]) * w
+			}
+		}
+	}
+	tol := func(k int) float64 { return math.Max(math.Pow(kN, float64(6-k)), 1e-12) }
+	for k := range kOrder {
+		if d := math.Abs(real(a3[k]) - a3Coeff[k]); d > tol(k) {
+			t.Errorf("A3: coefficient of ε^%d = %.12g, quadrature %.12g (off by %.3g, tolerance %.3g)", k, a3Coeff[k], real(a3[k]), d, tol(k))
+		}
+		for l := 1; l < kOrder; l++ {
+			if d := math.Abs(real(c3[l][k]) - c3Coeff[l][k]); d > tol(k) {
+				t.Errorf("C3_%d: coefficient of ε^%d = %.12g, quadrature %.12g (off by %.3g, tolerance %.3g)", l, k, c3Coeff[l][k], real(c3[l][k]), d, tol(k))
+			}
+		}
+	}
+}
+
+// fallbackCases are hard inverse problems for the fallback, each chosen for a branch: equatorial
+// pairs just inside and past the supplementary limit (λ12 > 180° − 180°·f), mirrored latitudes
+// (β2 = −β1), meridians past the conjugate point, the poles, latitudes swapped by size, nearly
+// antipodal pairs at every latitude, and two short lines. Source of every value: GeodSolve
+// (GeographicLib, Debian geographiclib-tools), WGS84, `GeodSolve -i -p 12 -f` on the four inputs;
+// the columns are its azi1, azi2, s12, a12 and m12.
+var fallbackCases = []struct {
+	lat1, lon1, lat2, lon2    float64
+	azi1, azi2, s12, a12, m12 float64
+}{
+	{0, 0, 0, 179.5, 55.966495140159, 124.033504859841, 19980861.9088909626, 180.000000000000, 21062.7464053179},
+	{0, 0, 0, 179.9, 9.545672694739, 170.454327305261, 20003008.4215094112, 180.000000000000, 65284.1129148783},
+	{0, 0, 0, 179.41, 77.865605412176, 102.134394587824, 19971813.0476657301, 180.000000000000, 2973.1870971325},
+	{30, 0, -30, 179.8, 22.496662409658, 157.503337590342, 20000239.4377246685, 180.000000000000, 43057.4858471945},
+	{1, 0, -1, 179.9, 9.547130551550, 170.452869448450, 20003008.4215094112, 180.000000000000, 65263.8027857012},
+	{0.5, 0, -0.5, 179, 90.001730116549, 90.001730116549, 19926190.5214222111, 179.602164285542, 44138.0401836284},
+	{60, 0, -60, 179.99, 1.895927569484, 178.104072430516, 20003922.2281490415, 180.000000000000, 16847.6347514677},
+	{-45, 10, 45, -170.5, 89.974289650742, 89.974289650742, 19981349.3437553570, 179.948406322854, 5733.7218197590},
+	{-30, 0, 29.5, 180, 180.000000000000, 0.000000000000, 19948507.3368097544, 179.500853620208, 106102.9032381724},
+	{-0.5, 0, 0.3, 180, 180.000000000000, 0.000000000000, 19981816.5924125165, 179.800670495743, 89236.9811263521},
+	{10, 20, -10.2, -160, -180.000000000000, -0.000000000000, 19981809.7721296698, 179.800629515354, 87196.1014168167},
+	{-90, 0, 10, 50, 50.000000000000, 0.000000000000, 11107820.5625470951, 99.967145322218, 6281872.8296034522},
+	{90, 0, -89.5, 30, 150.000000000000, 180.000000000000, 19948084.4831771664, 179.498318040916, 55846.2666193891},
+	{-90, 0, 89.9, 0, 0.000000000000, 0.000000000000, 19992762.0607841872, 179.899663591705, 11169.3921706058},
+	{90, 0, -90, 0, 180.000000000000, 180.000000000000, 20003931.4586254470, 180.000000000000, 0.0000000000},
+	{20, 0, -20.1, 179.7, 154.014485270348, 26.003205306265, 19985919.9674615636, 179.889030854740, 60231.5485042142},
+	{0.1, 0, -0.2, 179.95, 175.919051669131, 4.080966884434, 19992675.9411083944, 179.900081933214, 77871.5234048245},
+	{45, 0, -44.8, 179.9, 8.087259358385, 171.940915222242, 19981149.7772847526, 179.798001582172, 55575.2090166939},
+	{-5, 0, 4.99, 179.99, 179.061749071273, 0.938236710288, 20002816.5519356914, 179.990031685785, 67708.2718280768},
+	{75, 0, -75.02, 179.6, 107.268633571058, 72.973334358932, 19994296.6837973483, 179.931968103161, 7964.4287814324},
+	{0.01, 0, -0.01, 179.99, 0.950222694235, 179.049777305765, 20003922.2281490415, 180.000000000000, 67107.1956914185},
+	{-10, 0, 10.1, 179.8, 16.619781696769, 163.374961737032, 19989724.5846587084, 179.895967523052, 71322.9333245442},
+	{10.1, 0, -10, 179.8, 16.625038262968, 163.380218303231, 19989724.5846587084, 179.895967523052, 71322.9333245442},
+	{10, 10, 10.001, 10.001, 44.747947258512, 44.748120915284, 155.7396283297, 0.001403597656, 155.7396283142},
+	{45, 0, 45, 0.0001, 89.999964644661, 90.000035355339, 7.8846835094, 0.000070948555, 7.8846835094},
+	{-0.3, 0, 0.2, 179.2, 112.330124331657, 67.668820503422, 19946081.2944224998, 179.737691006892, 38813.2596853175},
+	{0, 0, 0.5, 179.5, 25.671872868292, 154.327085469942, 19936288.5789653137, 179.447097780888, 115892.3764724095},
+	{0, 0, -0.5, 179.7, 164.443117206509, 15.557486109145, 19944127.4207504578, 179.482725302520, 119695.0059738054},
+	{89.9, 0, -89.95, 120, 149.999987151038, 89.999447075049, 19994258.5033094585, 179.913106594677, 9672.9259019149},
+	{-60, 5, 59.99, -175.01, 178.221610071725, 1.777853242543, 20002808.6780468784, 179.989978415606, 17969.5991844557},
+}
+
+// TestFallbackAgainstGeodSolveTable checks karneyInverse on fallbackCases (quick, in -short runs
+// too): length within tolGeodKarneyM and both azimuths within tolAzimuthDeg, except the exactly
+// antipodal pole-to-pole pair, where every azimuth is as good.
+func TestFallbackAgainstGeodSolveTable(t *testing.T) {
+	for _, c := range fallbackCases {
+		s, az1, az2 := karneyInverse(c.lat1, c.lon1, c.lat2, c.lon2)
+		if d := math.Abs(s - c.s12); !(d <= tolGeodKarneyM) {
+			t.Errorf("karneyInverse(%v, %v, %v, %v) = %.10f m, want %.10f (GeodSolve) (off by %.3g m)", c.lat1, c.lon1, c.lat2, c.lon2, s, c.s12, d)
+		}
+		if math.Abs(c.lat1) == 90 && c.lat2 == -c.lat1 {
+			continue
+		}
+		if e1, e2 := angleDiffDeg(az1, c.azi1), angleDiffDeg(az2, c.azi2); !(e1 <= tolAzimuthDeg && e2 <= tolAzimuthDeg) {
+			t.Errorf("karneyInverse(%v, %v, %v, %v) azimuths %.10f, %.10f, want %.10f, %.10f (GeodSolve)", c.lat1, c.lon1, c.lat2, c.lon2, az1, az2, c.azi1, c.azi2)
+		}
+	}
+}
+
+// TestFallbackLengthsAgainstGeodSolve checks karneyLengths, the distance and the reduced length m12
+// (Karney 2013, eqs. 38–41; m12 is the derivative that steers the fallback's Newton steps and
+// decides whether a meridian is still the shortest line), on the geodesics of fallbackCases: from
+// GeodSolve's start (lat1, azi1) and arc length a12 on the auxiliary sphere, its s12 and m12 within
+// 1 µm.
+func TestFallbackLengthsAgainstGeodSolve(t *testing.T) {
+	for _, c := range fallbackCases {
+		slat, clat := sinCosDeg(c.lat1)
+		sbet1, cbet1 := norm2(kF1*slat, clat)
+		salp1, calp1 := sinCosDeg(c.azi1)
+		calp0 := math.Hypot(calp1, salp1*sbet1) // cos α0
+		ssig1, csig1 := norm2(sbet1, calp1*cbet1) // σ1, from tan β1 = tan σ1 cos α1
+		sig12 := c.a12 * degRad
+		s12s, c12s := math.Sincos(sig12)
+		ssig2, csig2 := ssig1*c12s+csig1*s12s, csig1*c12s-ssig1*s12s
+		sbet2 := calp0 * ssig2
+		dn1, dn2 := math.Sqrt(1+wgs84Ep2*sbet1*sbet1), math.Sqrt(1+wgs84Ep2*sbet2*sbet2)
+		s12b, m12b := karneyLengths(epsOf(wgs84Ep2*calp0*calp0), sig12, ssig1, csig1, dn1, ssig2, csig2, dn2)
+		near(t, fmt.Sprintf("s12 of karneyLengths on (%v, %v) azimuth %v, arc %v°", c.lat1, c.lon1, c.azi1, c.a12), s12b*wgs84B, c.s12, 1e-6)
+		near(t, fmt.Sprintf("m12 of karneyLengths on (%v, %v) azimuth %v, arc %v°", c.lat1, c.lon1, c.azi1, c.a12), m12b*wgs84B, c.m12, 1e-6)
 	}
 }
