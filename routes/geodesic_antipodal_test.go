@@ -166,7 +166,8 @@ func TestFallbackSeriesCoefficients(t *testing.T) {
 // fallbackCases are hard inverse problems for the fallback, each chosen for a branch: equatorial
 // pairs just inside and past the supplementary limit (λ12 > 180° − 180°·f), mirrored latitudes
 // (β2 = −β1), meridians past the conjugate point, the poles, latitudes swapped by size, nearly
-// antipodal pairs at every latitude, and two short lines. Source of every value: GeodSolve
+// antipodal pairs at every latitude, two short lines, and four of a few centimetres (which the
+// starting guess solves directly). Source of every value: GeodSolve
 // (GeographicLib, Debian geographiclib-tools), WGS84, `GeodSolve -i -p 12 -f` on the four inputs;
 // the columns are its azi1, azi2, s12, a12 and m12.
 var fallbackCases = []struct {
@@ -203,11 +204,16 @@ var fallbackCases = []struct {
 	{0, 0, -0.5, 179.7, 164.443117206509, 15.557486109145, 19944127.4207504578, 179.482725302520, 119695.0059738054},
 	{89.9, 0, -89.95, 120, 149.999987151038, 89.999447075049, 19994258.5033094585, 179.913106594677, 9672.9259019149},
 	{-60, 5, 59.99, -175.01, 178.221610071725, 1.777853242543, 20002808.6780468784, 179.989978415606, 17969.5991844557},
+	{10, 10, 10.000001, 10.000001, 44.748078599179, 44.748078772827, 0.1557397438, 0.000001403599, 0.1557397438},
+	{45, 0, 45.0000005, 0.0000003, 23.059150082800, 23.059150294932, 0.0603910766, 0.000000543416, 0.0603910766},
+	{0, 0, 0.000001, 0.0000001, 5.748822731281, 5.748822731281, 0.1111332118, 0.000001001685, 0.1111332118},
+	{-70, 30, -70.0000002, 30.000001, 120.297754810443, 120.297753870750, 0.0442273145, 0.000000397457, 0.0442273145},
 }
 
 // TestFallbackAgainstGeodSolveTable checks karneyInverse on fallbackCases (quick, in -short runs
-// too): length within tolGeodKarneyM and both azimuths within tolAzimuthDeg, except the exactly
-// antipodal pole-to-pole pair, where every azimuth is as good.
+// too): length within tolGeodKarneyM and both azimuths within tolAzimuthDeg (or 10 nm at the far
+// end of the shortest lines), except the exactly antipodal pole-to-pole pair, where every azimuth
+// is as good.
 func TestFallbackAgainstGeodSolveTable(t *testing.T) {
 	for _, c := range fallbackCases {
 		s, az1, az2 := karneyInverse(c.lat1, c.lon1, c.lat2, c.lon2)
@@ -217,7 +223,10 @@ func TestFallbackAgainstGeodSolveTable(t *testing.T) {
 		if math.Abs(c.lat1) == 90 && c.lat2 == -c.lat1 {
 			continue
 		}
-		if e1, e2 := angleDiffDeg(az1, c.azi1), angleDiffDeg(az2, c.azi2); !(e1 <= tolAzimuthDeg && e2 <= tolAzimuthDeg) {
+		// As in TestGeodesicAgainstGeodSolve: on short lines the inputs' own resolution limits
+		// the azimuths to about 10 nm of lateral offset at the far end.
+		tolAz := math.Max(tolAzimuthDeg, 1e-8/c.s12*radDeg)
+		if e1, e2 := angleDiffDeg(az1, c.azi1), angleDiffDeg(az2, c.azi2); !(e1 <= tolAz && e2 <= tolAz) {
 			t.Errorf("karneyInverse(%v, %v, %v, %v) azimuths %.10f, %.10f, want %.10f, %.10f (GeodSolve)", c.lat1, c.lon1, c.lat2, c.lon2, az1, az2, c.azi1, c.azi2)
 		}
 	}
@@ -233,7 +242,7 @@ func TestFallbackLengthsAgainstGeodSolve(t *testing.T) {
 		slat, clat := sinCosDeg(c.lat1)
 		sbet1, cbet1 := norm2(kF1*slat, clat)
 		salp1, calp1 := sinCosDeg(c.azi1)
-		calp0 := math.Hypot(calp1, salp1*sbet1) // cos α0
+		calp0 := math.Hypot(calp1, salp1*sbet1)   // cos α0
 		ssig1, csig1 := norm2(sbet1, calp1*cbet1) // σ1, from tan β1 = tan σ1 cos α1
 		sig12 := c.a12 * degRad
 		s12s, c12s := math.Sincos(sig12)
