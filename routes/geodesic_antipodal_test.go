@@ -254,3 +254,52 @@ func TestFallbackLengthsAgainstGeodSolve(t *testing.T) {
 		near(t, fmt.Sprintf("m12 of karneyLengths on (%v, %v) azimuth %v, arc %v°", c.lat1, c.lon1, c.azi1, c.a12), m12b*wgs84B, c.m12, 1e-6)
 	}
 }
+
+// TestFallbackLambdaDerivative checks the derivative of λ12 with respect to α1 that steers the
+// fallback's Newton steps (Karney 2013, eq. 46: dλ12/dα1 = m12 / (a cos α2 cos β2), here in the
+// reduced units of karneyLambda12) against a central difference of karneyLambda12's own λ12 over
+// ±1e-6 rad (truncation ~1e-12, rounding ~1e-10), relative tolerance 1e-7.
+func TestFallbackLambdaDerivative(t *testing.T) {
+	prep := func(lat float64) (sbet, cbet, dn float64) {
+		s, c := sinCosDeg(lat)
+		sbet, cbet = norm2(kF1*s, c)
+		return sbet, cbet, math.Sqrt(1 + wgs84Ep2*sbet*sbet)
+	}
+	for _, c := range []struct{ lat1, lat2, lon12, alp1Deg float64 }{
+		{-30, 29.5, 179.5, 100}, {-30, 29.5, 179.5, 160}, {-10, 5, 170, 60}, {-0.5, 0.2, 179.8, 120}, {-60, 59.99, 179.99, 170},
+	} {
+		sbet1, cbet1, dn1 := prep(c.lat1)
+		sbet2, cbet2, dn2 := prep(c.lat2)
+		slam, clam := sinCosDeg(c.lon12)
+		at := func(alp float64) (float64, float64) {
+			s, co := math.Sincos(alp)
+			v, dv, _ := karneyLambda12(sbet1, cbet1, dn1, sbet2, cbet2, dn2, s, co, slam, clam, true)
+			return v, dv
+		}
+		const h = 1e-6
+		alp := c.alp1Deg * degRad
+		_, dv := at(alp)
+		vp, _ := at(alp + h)
+		vm, _ := at(alp - h)
+		if num := (vp - vm) / (2 * h); !(math.Abs(dv-num) <= 1e-7*math.Abs(num)) {
+			t.Errorf("karneyLambda12 at lat %v → %v, λ12 %v°, α1 %v°: dλ/dα1 = %.12g, central difference %.12g", c.lat1, c.lat2, c.lon12, c.alp1Deg, dv, num)
+		}
+	}
+}
+
+// TestFallbackMeridianNanometre: two points under a nanometre apart on one meridian, at the
+// equator, must not be rounded to one point (the fallback zeroes only arcs below 3 × the smallest
+// normal double's square root, or, under machine epsilon, negative ones). Δφ = 2⁻⁴⁷° (7e-15°, an
+// arc under machine epsilon; a multiple of 2⁻⁵⁶, so that the fallback's rounding of tiny angles
+// keeps it) is M·Δφ with the meridian radius of curvature at the equator M = a(1 − e²) (the
+// textbook formula).
+func TestFallbackMeridianNanometre(t *testing.T) {
+	dPhi := math.Ldexp(1, -47)
+	want := wgs84A * (1 - wgs84E2) * dPhi * degRad
+	for _, c := range [][4]float64{{0, 10, dPhi, 10}, {dPhi, -20, 0, -20}} {
+		s, _, _ := karneyInverse(c[0], c[1], c[2], c[3])
+		if math.Abs(s-want) > 1e-6*want {
+			t.Errorf("karneyInverse(%v) = %.6g m, want %.6g (a(1 − e²)·Δφ)", c, s, want)
+		}
+	}
+}
