@@ -377,3 +377,28 @@ func TestFallbackToRounding(t *testing.T) {
 		}
 	}
 }
+
+// TestFallbackAstroidEachBranch checks the astroid root (Karney 2013, eq. 55) in each branch of
+// its solution, against the quartic with a residual measured relative to the size of its terms
+// (so that a root of 1e-8 is held to the same 1e-12 as one of 1) and NaN failing: a negative
+// discriminant (the trigonometric solution) with u < 0, one with u > 0, r = (x² + y² − 1)/6
+// exactly 0 in floating point (x = −0.6, y = −0.8), and y = 0 with |x| > 1, where the quartic
+// k²(k² + 2k − (x² − 1)) = 0 has the positive root |x| − 1 exactly.
+func TestFallbackAstroidEachBranch(t *testing.T) {
+	for _, xy := range [][2]float64{{-0.5, -1e-8}, {0.3, -0.01}, {-0.99, -1e-6}, {-0.2, -0.1}, {-0.6, -0.8}, {-2, -1}, {-1.5, -0.5}, {-10, -5}, {-2, 0}, {-1.25, 0}} {
+		x, y := xy[0], xy[1]
+		k := karneyAstroid(x, y)
+		terms := []float64{k * k * k * k, 2 * k * k * k, -(x*x + y*y - 1) * k * k, -2 * y * y * k, -y * y}
+		res, size := 0.0, 0.0
+		for _, v := range terms {
+			res += v
+			size += math.Abs(v)
+		}
+		if !(k > 0) || !(math.Abs(res) <= 1e-12*size) {
+			t.Errorf("karneyAstroid(%v, %v) = %v: residual %.3g of terms summing to %.3g in size", x, y, k, res, size)
+		}
+		if y == 0 {
+			near(t, fmt.Sprintf("karneyAstroid(%v, 0)", x), k, math.Abs(x)-1, 1e-15)
+		}
+	}
+}
