@@ -131,6 +131,13 @@ func TestChoiceMarginEachDecision(t *testing.T) {
 		// The north pole and a route 60° up the meridian: past the end by 30°, nearer the
 		// route-end rule (30°) than the ends' tie (60°).
 		{"the route-end rule from the pole", []orb.Point{{0, 0}, {0, 60}}, 0, orb.Point{0, 90}, math.Pi/6*meanRadiusM - 1e-6, 1e-6},
+		// A route of 100° from the north pole down the meridian and the south pole (components
+		// −1 and exactly 0 in the segment's plane): past the end by 80°, nearer the route-end
+		// rule than the ends' tie (100°).
+		{"the route-end rule at the antipode of the start", []orb.Point{{0, 90}, {0, -10}}, 0, orb.Point{0, -90}, 4*math.Pi/9*meanRadiusM - 1e-6, 1e-6},
+		// A foot 0.5e-6 m before the corner, 10 m to the south, is snapped to the corner; the
+		// vertex rule is measured from the foot itself, 0.5e-6 m from its threshold.
+		{"snapped foot at the corner", corner, 0, orb.Point{0.01 - 0.5e-6*degPerM, -10 * degPerM}, 0.5e-6, 1e-8},
 	} {
 		r := mustRoute(t, tc.pts)
 		got := r.ChoiceMarginM(r.PlaceAt(tc.userAt), tc.marker)

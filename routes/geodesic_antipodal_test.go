@@ -401,4 +401,10 @@ func TestFallbackAstroidEachBranch(t *testing.T) {
 			near(t, fmt.Sprintf("karneyAstroid(%v, 0)", x), k, math.Abs(x)-1, 1e-15)
 		}
 	}
+	// At the edge of y = 0, |x| ≤ 1 the quartic k²(k² + 2k) = 0 has no positive root: 0.
+	for _, x := range []float64{-1, 1} {
+		if k := karneyAstroid(x, 0); k != 0 {
+			t.Errorf("karneyAstroid(%v, 0) = %v, want 0", x, k)
+		}
+	}
 }
