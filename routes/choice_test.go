@@ -4,6 +4,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/golang/geo/s2"
 	"github.com/paulmach/orb"
 	"pgregory.net/rapid"
 )
@@ -87,3 +88,61 @@ func TestPropChoiceMarginBoundsJumps(t *testing.T) {
 
 // equatorM is the WGS84 geodesic length of dLonDeg along the equator.
 func equatorM(dLonDeg float64) float64 { return 6378137 * dLonDeg * math.Pi / 180 }
+
+// The decisions of the margin one at a time, each built so that it alone is the nearest to its
+// threshold, to 1e-8 m (a tenth of the tie tolerance's scale): distances on the mean sphere as
+// the rules take them (degPerM), along the route as geodesics (equatorM), and, where the
+// geometry gives no closed form, golang/geo's s2 angles × the mean radius.
+func TestChoiceMarginEachDecision(t *testing.T) {
+	corner := []orb.Point{{0, 0}, {0.01, 0}, {0.01, 0.01}} // east, then north
+	leg := []orb.Point{{0, 0}, {0.01, 0}}
+	stairs := []orb.Point{{0, 0}, {0.01, 0}, {0.01, 0.01}, {0.02, 0.01}}
+	sphereM := func(a, b orb.Point) float64 {
+		pa := s2.PointFromLatLng(s2.LatLngFromDegrees(a[1], a[0]))
+		pb := s2.PointFromLatLng(s2.LatLngFromDegrees(b[1], b[0]))
+		return pa.Distance(pb).Radians() * meanRadiusM
+	}
+	r := mustRoute(t, stairs)
+	stairsUser := r.PlaceAt(r.Segment(1).StartM + 300) // on the northward leg
+	outsideSecond := orb.Point{0.01 - 5*degPerM, 0.01 + 5*degPerM}
+	for _, tc := range []struct {
+		name      string
+		pts       []orb.Point
+		userAt    float64 // along-route metres
+		marker    orb.Point
+		want, tol float64
+	}{
+		// 2 m north of the first leg, 0.5 m west of the second: the second wins, and the first
+		// would join the tie were it 1.5 m − 1e-6 m nearer.
+		{"an earlier segment joining the tie", corner, 0, orb.Point{0.01 - 0.5*degPerM, 2 * degPerM}, 1.5 - 1e-6, 1e-8},
+		// 0.5 m north of the first leg, 1 m west of the second: the first wins, and the second
+		// would win were it 0.5 m + 1e-6 m nearer (a later segment must be a tolerance nearer).
+		{"a later segment drawing a tolerance nearer", corner, 0, orb.Point{0.01 - 1*degPerM, 0.5 * degPerM}, 0.5 + 1e-6, 1e-8},
+		// A foot 0.3 of the way from the end, 111 m off: the vertex rule at the end.
+		{"foot nearer the end", leg, 0, orb.Point{0.007, 0.001}, equatorM(0.003) - 1e-6, 1e-8},
+		// The user 100 m along, the foot at 0.004: the start vertex is not part of the arc ahead
+		// of the user, so only the end's vertex rule counts.
+		{"user inside the segment", leg, 100, orb.Point{0.004, 0.001}, equatorM(0.006) - 1e-6, 1e-6},
+		// The user on the northward leg of the stairs, the marker outside the second corner:
+		// the tie between the ends of the chosen segment, from the user's place (its start
+		// here) to the corner.
+		{"the ends' tie from the user's place", stairs, stairsUser.AlongM, outsideSecond,
+			sphereM(outsideSecond, stairsUser.Point) - sphereM(outsideSecond, stairs[2]) - 1e-6, 1e-7},
+		// The north pole and a route 60° up the meridian: past the end by 30°, nearer the
+		// route-end rule (30°) than the ends' tie (60°).
+		{"the route-end rule from the pole", []orb.Point{{0, 0}, {0, 60}}, 0, orb.Point{0, 90}, math.Pi/6*meanRadiusM - 1e-6, 1e-6},
+		// A route of 100° from the north pole down the meridian and the south pole (components
+		// −1 and exactly 0 in the segment's plane): past the end by 80°, nearer the route-end
+		// rule than the ends' tie (100°).
+		{"the route-end rule at the antipode of the start", []orb.Point{{0, 90}, {0, -10}}, 0, orb.Point{0, -90}, 4*math.Pi/9*meanRadiusM - 1e-6, 1e-6},
+		// A foot 0.5e-6 m before the corner, 10 m to the south, is snapped to the corner; the
+		// vertex rule is measured from the foot itself, 0.5e-6 m from its threshold.
+		{"snapped foot at the corner", corner, 0, orb.Point{0.01 - 0.5e-6*degPerM, -10 * degPerM}, 0.5e-6, 1e-8},
+	} {
+		r := mustRoute(t, tc.pts)
+		got := r.ChoiceMarginM(r.PlaceAt(tc.userAt), tc.marker)
+		if math.IsNaN(got) || math.Abs(got-tc.want) > tc.tol {
+			t.Errorf("%s: ChoiceMarginM = %.12g m, want %.12g (off by %.3g, tolerance %g)", tc.name, got, tc.want, got-tc.want, tc.tol)
+		}
+	}
+}

@@ -262,38 +262,45 @@ func TestPropReverseSwapsSides(t *testing.T) {
 		if err != nil {
 			t.Fatalf("New refused the reversed route: %v", err)
 		}
-		// A marker beside a random along-route position (not a vertex), 1 cm to 10 km off.
-		base := r.PointAt(rapid.Float64Range(0, 1).Draw(t, "marker_along_frac") * r.LengthM())
-		q := offsetPoint(base, rapid.Float64Range(0, 360).Draw(t, "marker_bearing_deg"), logUniform(t, 1e-2, 1e4, "marker_offset_m"))
+		// A marker beside a random along-route position (not a vertex), 1 cm to 10 km off; up
+		// to four on each route, until one is clean (about 3 markers in 10 are).
 		total++
-		m, mr := r.Metrics(r.PlaceAt(0), q), rr.Metrics(rr.PlaceAt(0), q)
-		// Only a clean case says anything: the closest point unique by a metre, inside a segment
-		// (at a vertex the two directions judge the side against different segments), and the
-		// side decision not borderline.
-		qq := query{q: s2Of(q).Vector, u: 0, cl: 1, sl: 0, lo: r.segs[0].a}
-		best, second := math.Inf(1), math.Inf(1)
-		var bestAt int
-		for i := range r.segs {
-			c2, at, _, _ := r.segClosest(i, &qq)
-			a := chordAngle(c2)
-			if a < best {
-				best, second, bestAt = a, best, at
-			} else if a < second {
-				second = a
+		for range 4 {
+			base := r.PointAt(rapid.Float64Range(0, 1).Draw(t, "marker_along_frac") * r.LengthM())
+			q := offsetPoint(base, rapid.Float64Range(0, 360).Draw(t, "marker_bearing_deg"), logUniform(t, 1e-2, 1e4, "marker_offset_m"))
+			m, mr := r.Metrics(r.PlaceAt(0), q), rr.Metrics(rr.PlaceAt(0), q)
+			// Only a clean case says anything: the closest point unique by a metre, inside a
+			// segment (at a vertex the two directions judge the side against different segments),
+			// and the side decision not borderline.
+			qq := query{q: s2Of(q).Vector, u: 0, cl: 1, sl: 0, lo: r.segs[0].a}
+			best, second := math.Inf(1), math.Inf(1)
+			var bestAt int
+			for i := range r.segs {
+				c2, at, _, _ := r.segClosest(i, &qq)
+				a := chordAngle(c2)
+				if a < best {
+					best, second, bestAt = a, best, at
+				} else if a < second {
+					second = a
+				}
 			}
-		}
-		if bestAt != atFoot || (second-best)*meanRadiusM < 1 || m.SideMarginM < 1e-6 || m.Side == On {
-			return
-		}
-		checked++
-		want := map[Side]Side{Left: Right, Right: Left}[m.Side]
-		if mr.Side != want || math.Abs(mr.CrossTrackM+m.CrossTrackM) > 1e-6 {
-			t.Fatalf("%s route, marker %.17g: forward %v (%.9g m), reversed %v (%.9g m)",
-				g.kind, q, m.Side, m.CrossTrackM, mr.Side, mr.CrossTrackM)
+			if bestAt != atFoot || (second-best)*meanRadiusM < 1 || m.SideMarginM < 1e-6 || m.Side == On {
+				continue
+			}
+			checked++
+			want := map[Side]Side{Left: Right, Right: Left}[m.Side]
+			if mr.Side != want || math.Abs(mr.CrossTrackM+m.CrossTrackM) > 1e-6 {
+				t.Fatalf("%s route, marker %.17g: forward %v (%.9g m), reversed %v (%.9g m)",
+					g.kind, q, m.Side, m.CrossTrackM, mr.Side, mr.CrossTrackM)
+			}
+			break
 		}
 	})
-	if checked < total/5 { // U-turns always tie and tangled routes often close at a vertex
-		t.Errorf("only %d of %d cases were clean enough to check", checked, total)
+	// With one marker per route about 3 in 10 were clean, and a bound on that fraction failed by
+	// chance in about one -short run (20 routes) in 13; with up to four markers about half the routes
+	// have one (a U-turn never does: it always ties), and the bound below is left to chance no more.
+	if checked < total/5 {
+		t.Errorf("only %d of %d routes had a marker clean enough to check", checked, total)
 	}
 }
 

@@ -491,3 +491,110 @@ func TestManyTiedStretches(t *testing.T) {
 		t.Errorf("Metrics(user on the fourth pass, %v).Closest.Segment = %d, want 3", q, m.Closest.Segment)
 	}
 }
+
+// footOnCircle returns the foot of the perpendicular from q on the great circle through a and b
+// (vector algebra on the sphere of geodetic latitude, written out here) and the side of q: +1 left
+// of travel from a to b, −1 right.
+func footOnCircle(q, a, b orb.Point) (orb.Point, float64) {
+	qv, _, _ := unitVec(q)
+	av, _, _ := unitVec(a)
+	bv, _, _ := unitVec(b)
+	n := av.Cross(bv).Normalize()
+	z := qv.Dot(n)
+	f := qv.Sub(n.Mul(z)).Normalize()
+	return orb.Point{math.Atan2(f.Y, f.X) * radDeg, math.Asin(f.Z) * radDeg}, math.Copysign(1, z)
+}
+
+// TestCrossTrackAtAVertex: when the closest point is a vertex, the cross-track distance is still
+// to the foot on the side segment's great circle, however far along the circle that foot lies
+// (here up to 30° behind the vertex), under 1 km (local metric) and beyond (Vincenty). Expected:
+// the foot by footOnCircle, then GeodesicDistM (itself checked against GeodSolve) from the marker.
+func TestCrossTrackAtAVertex(t *testing.T) {
+	cases := []struct {
+		name    string
+		pts     []orb.Point
+		q       orb.Point
+		sideSeg int // the segment holding the closest vertex
+	}{
+		{"behind the start, 30° along, 100 m off", []orb.Point{{0, 0}, {0, 1}}, orb.Point{0.001, -30}, 0},
+		{"behind the start, 30° along, 290 km off", []orb.Point{{0, 0}, {0, 1}}, orb.Point{3, -30}, 0},
+		{"behind the start, 20° along, 60 m off, left", []orb.Point{{10, 20}, {10.5, 20.5}}, orb.Point{-9.9995, 0.0004}, 0},
+		{"past a corner, 30° behind the next segment, 100 m off its circle", []orb.Point{{0, 0}, {10, 0}, {10, 10}}, orb.Point{10.001, -30}, 1},
+		{"past a corner, 40 m off the next segment's circle", []orb.Point{{0, 0}, {0.01, 0}, {0.01, 0.01}}, orb.Point{0.0104, -0.0003}, 1},
+		{"past a corner, 5 km off the next segment's circle", []orb.Point{{0, 0}, {1, 0}, {1, 1}}, orb.Point{1.045, -0.3}, 1},
+	}
+	for _, c := range cases {
+		r := mustRoute(t, c.pts)
+		m := r.Metrics(r.PlaceAt(0), c.q)
+		if m.Closest.Point != c.pts[c.sideSeg] {
+			t.Errorf("%s: Metrics(start, %v).Closest.Point = %v, want the vertex %v", c.name, c.q, m.Closest.Point, c.pts[c.sideSeg])
+			continue
+		}
+		foot, side := footOnCircle(c.q, c.pts[c.sideSeg], c.pts[c.sideSeg+1])
+		want := side * GeodesicDistM(c.q, foot)
+		near(t, fmt.Sprintf("%s: Metrics(start, %v).CrossTrackM", c.name, c.q), m.CrossTrackM, want, 1e-6)
+		wantSide := map[float64]Side{1: Left, -1: Right}[side]
+		if m.Side != wantSide {
+			t.Errorf("%s: Metrics(start, %v).Side = %v, want %v", c.name, c.q, m.Side, wantSide)
+		}
+	}
+}
+
+// TestNotAheadOnTheLastCircleExactly: a marker on the last segment's great circle (its component
+// along the segment's start exactly −1, across it exactly 0) is past the end by 170°, so not
+// Ahead (the definition of Ahead in Metrics).
+func TestNotAheadOnTheLastCircleExactly(t *testing.T) {
+	r := mustRoute(t, []orb.Point{{0, 0}, {0, 10}})
+	// The antipode of the start (components −1 and 0, past the end by 170°) and the north pole
+	// (components 0 and 1, past the end by 80°), both on the meridian circle of the route.
+	for _, q := range []orb.Point{{180, 0}, {0, 90}} {
+		m := r.Metrics(r.PlaceAt(0), q)
+		if m.Closest.Point != (orb.Point{0, 10}) || m.Ahead {
+			t.Errorf("Metrics(start, %v): Closest.Point %v, Ahead %v; want the end (0, 10) and Ahead false", q, m.Closest.Point, m.Ahead)
+		}
+	}
+}
+
+// TestCrossTrackIsRouteDistAtAFoot: where the closest point is the foot of the perpendicular, the
+// cross-track distance is RouteDistM itself, to the bit (the documentation of CrossTrackM), with
+// the side's sign.
+func TestCrossTrackIsRouteDistAtAFoot(t *testing.T) {
+	r := mustRoute(t, []orb.Point{{0, 0}, {0.01, 0}, {0.01, 0.01}, {0.5, 0.3}})
+	for _, q := range []orb.Point{{0.004, 0.0003}, {0.004, -0.002}, {0.0102, 0.006}, {0.3, 0.1}, {0.3, 0.5}} {
+		m := r.Metrics(r.PlaceAt(0), q)
+		if math.Abs(m.CrossTrackM) != m.RouteDistM {
+			t.Errorf("Metrics(start, %v): CrossTrackM %.17g, RouteDistM %.17g: want equal magnitudes", q, m.CrossTrackM, m.RouteDistM)
+		}
+	}
+}
+
+// TestUserQueryMovedAlone: Place is a value, and a caller may move its Query without its AlongM;
+// Metrics then measures UserDistM from the new Query (the documentation of Metrics). Expected:
+// GeodesicDistM between the new Query and the marker.
+func TestUserQueryMovedAlone(t *testing.T) {
+	r := mustRoute(t, []orb.Point{{0, 0}, {0.01, 0}, {0.02, 0.005}})
+	user := r.Snap(orb.Point{0.003, 0.0004})
+	user.Query = orb.Point{0.003, -0.0007}
+	q := orb.Point{0.015, 0.004}
+	m := r.Metrics(user, q)
+	near(t, fmt.Sprintf("Metrics(user with Query moved to %v, %v).UserDistM", user.Query, q), m.UserDistM, GeodesicDistM(user.Query, q), tolLocalM)
+}
+
+// TestVertexRuleAtTheUsersVertex: on the user's own segment the start vertex is part of the
+// considered arc when the user stands at it, so a foot within vertexSnapM after it is that vertex
+// (the vertex rule of Snap, which Metrics follows); from the start of the route and from an
+// interior vertex.
+func TestVertexRuleAtTheUsersVertex(t *testing.T) {
+	r := mustRoute(t, []orb.Point{{0, 0}, {0.01, 0}, {0.02, 0}})
+	for _, v := range []int{0, 1} {
+		vertex := r.pts[v]
+		// 0.5e-6 m along the route after the vertex, 10 m to the north.
+		q := orb.Point{vertex[0] + 0.5e-6*degPerM, 10 * degPerM}
+		user := r.PlaceAt(r.Segment(v).StartM)
+		m := r.Metrics(user, q)
+		if m.Closest.Point != vertex || m.Closest.AlongM != r.Segment(v).StartM || m.AlongM != 0 {
+			t.Errorf("Metrics(user at vertex %d, %v).Closest = %v at %v m (AlongM %v), want the vertex %v at %v m exactly",
+				v, q, m.Closest.Point, m.Closest.AlongM, m.AlongM, vertex, r.Segment(v).StartM)
+		}
+	}
+}
