@@ -373,7 +373,7 @@ func appendRaw(b, raw []byte) ([]byte, bool) {
 }
 
 // appendNums appends an object of numeric fields, none omitted when empty.
-func appendNums[K ~[3]string, P ~[3]*float64](b []byte, keys K, ps P) ([]byte, bool) {
+func appendNums(b []byte, keys [3]string, ps [3]*float64) ([]byte, bool) {
 	b = append(b, '{')
 	ok := true
 	for i := range keys {

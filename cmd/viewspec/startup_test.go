@@ -67,7 +67,7 @@ func TestStartupInitialisesLittle(t *testing.T) {
 			t.Errorf("init of %s allocates %d bytes at every start (at most %d)", pkg, n, limit)
 		}
 	}
-	if bytesBy["github.com/santhosh-tekuri/jsonschema/v6"] == 0 && checked == 0 {
+	if checked == 0 {
 		t.Fatalf("the report names none of the packages checked: %v", bytesBy)
 	}
 }
