@@ -17,20 +17,30 @@ import (
 type expandFn struct{}
 
 func (expandFn) ProcessElement(ctx context.Context, glob string, emit func(string)) error {
-	fs, err := filesystem.New(ctx, glob)
+	files, err := InputFiles(ctx, glob)
 	if err != nil {
 		return err
 	}
-	defer fs.Close()
-	files, err := fs.List(ctx, glob)
-	if err != nil {
-		return err
-	}
-	sort.Strings(files)
 	for _, f := range files {
 		emit(f)
 	}
 	return nil
+}
+
+// InputFiles returns the log files the input glob matches, in name order,
+// from whichever file system Beam has for the glob's scheme.
+func InputFiles(ctx context.Context, glob string) ([]string, error) {
+	fs, err := filesystem.New(ctx, glob)
+	if err != nil {
+		return nil, err
+	}
+	defer fs.Close()
+	files, err := fs.List(ctx, glob)
+	if err != nil {
+		return nil, err
+	}
+	sort.Strings(files)
+	return files, nil
 }
 
 // auditFn audits whole log files. Per bundle it keeps one audit.Totals (the

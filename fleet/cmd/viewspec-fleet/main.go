@@ -20,7 +20,6 @@ import (
 	"strings"
 
 	"github.com/apache/beam/sdks/v2/go/pkg/beam"
-	"github.com/apache/beam/sdks/v2/go/pkg/beam/io/filesystem"
 	"github.com/apache/beam/sdks/v2/go/pkg/beam/x/beamx"
 
 	"github.com/viewspec/viewspec/fleet"
@@ -70,12 +69,7 @@ func main() {
 
 // checkInput says when the glob matches no file, before a job starts.
 func checkInput(ctx context.Context, glob string) error {
-	fs, err := filesystem.New(ctx, glob)
-	if err != nil {
-		return err
-	}
-	defer fs.Close()
-	files, err := fs.List(ctx, glob)
+	files, err := fleet.InputFiles(ctx, glob)
 	if err != nil {
 		return err
 	}
