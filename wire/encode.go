@@ -249,15 +249,16 @@ func fastRequest(r *Request) ([]byte, bool) {
 		good(appendCamera(b, r.Camera))
 	}
 	if len(r.Points) > 0 {
-		good(appendPoints(b, "points", r.Points))
+		b = append(b, `,"points":`...)
+		good(appendList(b, r.Points, appendPoint))
 	}
 	if len(r.Pixels) > 0 {
-		good(appendPairs(b, "pixels", "x", "y", len(r.Pixels), func(i int) (x, y *float64, null bool) {
-			p := r.Pixels[i]
-			if p == nil {
-				return nil, nil, true
-			}
-			return p.X, p.Y, false
+		b = append(b, `,"pixels":`...)
+		good(appendList(b, r.Pixels, func(b []byte, p *Pixel) ([]byte, bool) {
+			b = append(b, '{')
+			b, g1 := appendKeyNum(b, "x", p.X, true)
+			b, g2 := appendKeyNum(b, "y", p.Y, false)
+			return append(b, '}'), g1 && g2
 		}))
 	}
 	if r.Route != nil {
@@ -265,11 +266,8 @@ func fastRequest(r *Request) ([]byte, bool) {
 		if r.Route.Points == nil {
 			b = append(b, `"points":null`...)
 		} else {
-			// appendPoints writes ,"points":[…]; the route's first field
-			// has no comma before it.
-			at := len(b)
-			good(appendPoints(b, "points", r.Route.Points))
-			b = append(b[:at], b[at+1:]...)
+			b = append(b, `"points":`...)
+			good(appendList(b, r.Route.Points, appendPoint))
 		}
 		b = append(b, `,"speed_mps":`...)
 		if r.Route.SpeedMps == nil {
@@ -284,32 +282,18 @@ func fastRequest(r *Request) ([]byte, bool) {
 		good(appendPoint(b, r.User))
 	}
 	if len(r.Markers) > 0 {
-		b = append(b, `,"markers":[`...)
-		for i, m := range r.Markers {
-			if i > 0 {
-				b = append(b, ',')
-			}
-			good(appendMarker(b, m))
-		}
-		b = append(b, ']')
+		b = append(b, `,"markers":`...)
+		good(appendList(b, r.Markers, appendMarker))
 	}
 	if r.Rules != nil {
 		b = append(b, `,"rules":`...)
 		good(appendRules(b, r.Rules))
 	}
 	if len(r.Samples) > 0 {
-		b = append(b, `,"samples":[`...)
-		for i, s := range r.Samples {
-			if i > 0 {
-				b = append(b, ',')
-			}
-			if s == nil {
-				b = append(b, "null"...)
-				continue
-			}
-			good(appendNums(b, [...]string{"t_s", "speed_mps", "turn_dist_m"}, [...]*float64{s.TS, s.SpeedMps, s.TurnDistM}))
-		}
-		b = append(b, ']')
+		b = append(b, `,"samples":`...)
+		good(appendList(b, r.Samples, func(b []byte, s *Sample) ([]byte, bool) {
+			return appendNums(b, [...]string{"t_s", "speed_mps", "turn_dist_m"}, [...]*float64{s.TS, s.SpeedMps, s.TurnDistM})
+		}))
 	}
 	if r.Device != nil {
 		b = append(b, `,"device":`...)
@@ -331,18 +315,10 @@ func fastRequest(r *Request) ([]byte, bool) {
 		b = strconv.AppendBool(b, *r.Trace)
 	}
 	if len(r.Fixes) > 0 {
-		b = append(b, `,"fixes":[`...)
-		for i, f := range r.Fixes {
-			if i > 0 {
-				b = append(b, ',')
-			}
-			if f == nil {
-				b = append(b, "null"...)
-				continue
-			}
-			good(appendNums(b, [...]string{"t_s", "lat", "lon"}, [...]*float64{f.TS, f.Lat, f.Lon}))
-		}
-		b = append(b, ']')
+		b = append(b, `,"fixes":`...)
+		good(appendList(b, r.Fixes, func(b []byte, f *Fix) ([]byte, bool) {
+			return appendNums(b, [...]string{"t_s", "lat", "lon"}, [...]*float64{f.TS, f.Lat, f.Lon})
+		}))
 	}
 	if !ok {
 		return nil, false
@@ -384,33 +360,36 @@ func appendNums(b []byte, keys [3]string, ps [3]*float64) ([]byte, bool) {
 	return append(b, '}'), ok
 }
 
-// appendPoint appends a point object, or null.
+// appendPoint appends a point object.
 func appendPoint(b []byte, p *Point) ([]byte, bool) {
-	if p == nil {
-		return append(b, "null"...), true
-	}
 	b = append(b, '{')
 	b, g1 := appendKeyNum(b, "lat", p.Lat, true)
 	b, g2 := appendKeyNum(b, "lon", p.Lon, false)
 	return append(b, '}'), g1 && g2
 }
 
-// appendPoints appends ,"key":[…points…].
-func appendPoints(b []byte, key string, ps []*Point) ([]byte, bool) {
-	return appendPairs(b, key, "lat", "lon", len(ps), func(i int) (x, y *float64, null bool) {
-		p := ps[i]
-		if p == nil {
-			return nil, nil, true
+// appendList appends […] for a list of objects, each written by one,
+// null where an entry is nil.
+func appendList[T any](b []byte, xs []*T, one func([]byte, *T) ([]byte, bool)) ([]byte, bool) {
+	b = append(b, '[')
+	ok := true
+	for i, x := range xs {
+		if i > 0 {
+			b = append(b, ',')
 		}
-		return p.Lat, p.Lon, false
-	})
+		if x == nil {
+			b = append(b, "null"...)
+			continue
+		}
+		var g bool
+		b, g = one(b, x)
+		ok = ok && g
+	}
+	return append(b, ']'), ok
 }
 
-// appendMarker appends a marker object, or null.
+// appendMarker appends a marker object.
 func appendMarker(b []byte, m *Marker) ([]byte, bool) {
-	if m == nil {
-		return append(b, "null"...), true
-	}
 	b = append(b, `{"id":`...)
 	switch {
 	case m.ID == nil:
@@ -433,6 +412,19 @@ func appendMarker(b []byte, m *Marker) ([]byte, bool) {
 	return append(b, '}'), ok
 }
 
+// appendBand appends a band object (below_kmh left out when absent).
+func appendBand(b []byte, bd *Band) ([]byte, bool) {
+	b = append(b, '{')
+	first, ok := true, true
+	if bd.BelowKmh != nil {
+		b, ok = appendKeyNum(b, "below_kmh", bd.BelowKmh, true)
+		first = false
+	}
+	b, g1 := appendKeyNum(b, "zoom", bd.Zoom, first)
+	b, g2 := appendKeyNum(b, "pitch_deg", bd.PitchDeg, false)
+	return append(b, '}'), ok && g1 && g2
+}
+
 // appendRules appends a rules object.
 func appendRules(b []byte, w *Rules) ([]byte, bool) {
 	b = append(b, `{"bands":`...)
@@ -440,29 +432,7 @@ func appendRules(b []byte, w *Rules) ([]byte, bool) {
 	if w.Bands == nil {
 		b = append(b, "null"...)
 	} else {
-		b = append(b, '[')
-		for i, bd := range w.Bands {
-			if i > 0 {
-				b = append(b, ',')
-			}
-			if bd == nil {
-				b = append(b, "null"...)
-				continue
-			}
-			b = append(b, '{')
-			first := true
-			if bd.BelowKmh != nil {
-				var g bool
-				b, g = appendKeyNum(b, "below_kmh", bd.BelowKmh, true)
-				ok, first = ok && g, false
-			}
-			var g1, g2 bool
-			b, g1 = appendKeyNum(b, "zoom", bd.Zoom, first)
-			b, g2 = appendKeyNum(b, "pitch_deg", bd.PitchDeg, false)
-			b = append(b, '}')
-			ok = ok && g1 && g2
-		}
-		b = append(b, ']')
+		b, ok = appendList(b, w.Bands, appendBand)
 	}
 	for _, f := range [...]struct {
 		key string
@@ -489,32 +459,6 @@ func appendRules(b []byte, w *Rules) ([]byte, bool) {
 		ok = ok && g
 	}
 	return append(b, '}'), ok
-}
-
-// appendPairs appends ,"key":[{"k1":x,"k2":y},…] for n entries, null where
-// pair says so.
-func appendPairs(b []byte, key, k1, k2 string, n int, pair func(i int) (x, y *float64, null bool)) ([]byte, bool) {
-	b = append(b, `,"`...)
-	b = append(b, key...)
-	b = append(b, `":[`...)
-	ok := true
-	for i := range n {
-		if i > 0 {
-			b = append(b, ',')
-		}
-		x, y, null := pair(i)
-		if null {
-			b = append(b, "null"...)
-			continue
-		}
-		var g1, g2 bool
-		b = append(b, '{')
-		b, g1 = appendKeyNum(b, k1, x, true)
-		b, g2 = appendKeyNum(b, k2, y, false)
-		b = append(b, '}')
-		ok = ok && g1 && g2
-	}
-	return append(b, ']'), ok
 }
 
 // appendOptNums appends "key":[…] for a slice of optional numbers.
