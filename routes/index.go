@@ -9,8 +9,9 @@ package routes
 // angle, so whole regions of far segments are skipped; splitting by position rather than by index
 // keeps the boxes apart even where a route crosses itself many times (a tree over runs of
 // consecutive segments had ~60 boxes over every point of a tangled 20,000-vertex drive). "At or
-// ahead of segment u" skips children whose largest index is below u. Queries touch about ten nodes
-// and six segments on a 500-vertex city drive, twenty nodes on a 20,000-vertex one.
+// ahead of segment u" skips children whose largest index is below u. Queries open about ten nodes
+// and leaves on a 500-vertex city drive, 24 on a 20,000-vertex one, 31 on a 20,000-vertex tangle,
+// within 15% of the nodes any search must open (index_work_test.go bounds them).
 //
 // The build (treeBuilder) is O(n log n): each split finds the median by selection, in time linear
 // in the node's segments, not by sorting them, and the boxes are made bottom-up, a parent's from
@@ -82,7 +83,14 @@ func toBox32(lo, hi r3.Vector) box32 {
 // buildTree builds the index over segs: the internal nodes, the root's code (see node), and the
 // items in leaf order. See treeBuilder for how, in O(n log n).
 func buildTree(segs []segment) ([]node, int32, []item) {
-	b := treeBuilder{
+	b := newTreeBuilder(segs)
+	root := b.build(0, len(segs)).code // before reading b.nodes, which it appends to
+	return b.nodes, root, b.items
+}
+
+// newTreeBuilder returns a builder for the tree over segs, with each segment's box and centre made.
+func newTreeBuilder(segs []segment) *treeBuilder {
+	b := &treeBuilder{
 		segs:  segs,
 		es:    make([]buildEntry, len(segs)),
 		boxes: make([]segBox, len(segs)),
@@ -95,8 +103,7 @@ func buildTree(segs []segment) ([]node, int32, []item) {
 		b.boxes[i] = segBox{lo, hi}
 		b.es[i] = buildEntry{centre: [3]float64{c.X, c.Y, c.Z}, seg: int32(i)}
 	}
-	root := b.build(0, len(segs)).code // before reading b.nodes, which it appends to
-	return b.nodes, root, b.items
+	return b
 }
 
 // treeBuilder builds the index top-down, splitting each range of entries at the median of their
@@ -120,6 +127,9 @@ type treeBuilder struct {
 	boxes []segBox     // each segment's box (arcBox), by segment index
 	nodes []node
 	items []item
+	// partitioned counts the entries the splits' selections partitioned: the build's work, which
+	// the tree cannot show (a worse pivot costs time only), so tests bound it.
+	partitioned int
 }
 
 // buildEntry is a segment while the tree is built: the centre of its box (unit-sphere units) and
@@ -150,7 +160,7 @@ func (b *treeBuilder) build(first, last int) subtree {
 	}
 	axis := b.widestAxis(first, last)
 	mid := (first + last) / 2
-	selectNth(b.es[first:last], mid-first, axis)
+	b.partitioned += selectNth(b.es[first:last], mid-first, axis)
 	idx := int32(len(b.nodes))
 	b.nodes = append(b.nodes, node{})
 	l := b.build(first, mid)
@@ -222,9 +232,10 @@ func (e *buildEntry) less(f *buildEntry, axis int) bool {
 // O(len(es)) at worst: pivots are medians of three (ninthers on long ranges), and should those
 // shrink the range too slowly, so that the ranges partitioned add up to more than
 // selectWorkFactor·len(es), the rest goes with the median of medians, which always shrinks it by
-// 3/10 or more.
-func selectNth(es []buildEntry, k, axis int) {
-	selectNthWithin(es, k, axis, selectWorkFactor*len(es))
+// 3/10 or more. It returns how many entries it partitioned, those of the median of medians
+// included: its work, O(len(es)).
+func selectNth(es []buildEntry, k, axis int) (partitioned int) {
+	return selectNthWithin(es, k, axis, selectWorkFactor*len(es))
 }
 
 // selectWorkFactor bounds, as a multiple of the length, the entries partitioned with cheap pivots
@@ -241,15 +252,18 @@ const selectSmall = 12
 const _ = uint(selectSmall - (2*leafSegs + 1))
 
 // selectNthWithin is selectNth with the cheap pivots' budget given, in entries partitioned.
-func selectNthWithin(es []buildEntry, k, axis, budget int) {
+func selectNthWithin(es []buildEntry, k, axis, budget int) (partitioned int) {
 	lo, hi := 0, len(es)
 	for hi-lo > selectSmall {
 		budget -= hi - lo
+		partitioned += hi - lo
 		var p int
 		if budget >= 0 {
 			p = pivotNinther(es, lo, hi, axis)
 		} else {
-			p = pivotMedianOfMedians(es, lo, hi, axis)
+			var w int
+			p, w = pivotMedianOfMedians(es, lo, hi, axis)
+			partitioned += w
 		}
 		p = partitionAround(es, lo, hi, p, axis)
 		switch {
@@ -258,10 +272,11 @@ func selectNthWithin(es []buildEntry, k, axis, budget int) {
 		case k > p:
 			lo = p + 1
 		default:
-			return
+			return partitioned
 		}
 	}
 	insertionSort(es[lo:hi], axis)
+	return partitioned
 }
 
 // partitionAround reorders es[lo:hi] around the pivot es[p]: entries less than it, then it, then
@@ -289,13 +304,17 @@ func partitionAround(es []buildEntry, lo, hi, p, axis int) int {
 }
 
 // pivotNinther returns the index of a pivot for es[lo:hi] (at least 3 entries): the median of the
-// first, middle and last entries, or on 128 or more entries the median of three such medians
-// (Tukey's ninther), which resists the ordered runs that along-route order leaves.
+// entries a quarter, a half and three quarters of the way along, or on 128 or more entries the
+// median of three medians of spaced triples across the range (Tukey's ninther), which resists the
+// ordered runs that along-route order leaves. Not the first and last entries below 128: a partition
+// of a run in descending order leaves an ascending run behind the one entry it moved to the front,
+// whose first and last entries are then the two largest, and the range shrank by two entries a step
+// (5·n partitioned to select the least of 71 descending keys, against 1.7·n now).
 func pivotNinther(es []buildEntry, lo, hi, axis int) int {
 	n := hi - lo
 	m := lo + n/2
 	if n < 128 {
-		return median3(es, lo, m, hi-1, axis)
+		return median3(es, lo+n/4, m, hi-1-n/4, axis)
 	}
 	s := n / 8
 	return median3(es,
@@ -321,16 +340,17 @@ func median3(es []buildEntry, a, b, c, axis int) int {
 // pivotMedianOfMedians returns the index of a pivot for es[lo:hi] (at least 5 entries) with at
 // least 3/10 of the range, less a few entries, on each side: the median of the medians of groups
 // of five (Blum, Floyd, Pratt, Rivest and Tarjan, "Time bounds for selection", 1973). It gathers
-// the medians at the front of the range.
-func pivotMedianOfMedians(es []buildEntry, lo, hi, axis int) int {
+// the medians at the front of the range, and returns with the pivot the entries its selection of
+// the median partitioned.
+func pivotMedianOfMedians(es []buildEntry, lo, hi, axis int) (p, partitioned int) {
 	g := 0
 	for i := lo; i+5 <= hi; i += 5 {
 		insertionSort(es[i:i+5], axis)
 		es[lo+g], es[i+2] = es[i+2], es[lo+g] // lo+g lies in a group already done
 		g++
 	}
-	selectNth(es[lo:lo+g], g/2, axis)
-	return lo + g/2
+	partitioned = selectNth(es[lo:lo+g], g/2, axis)
+	return lo + g/2, partitioned
 }
 
 // insertionSort sorts es by less along axis.
@@ -461,6 +481,13 @@ const maxTies = 8
 // tie rule: among the segments whose closest points are within tieTolM of the minimum distance,
 // the one with the smallest index (hence the smallest along-route position). It does not allocate.
 func (r *Route) nearest(qq *query) int {
+	seg, _ := r.search(qq)
+	return seg
+}
+
+// search is nearest, also returning how many nodes and leaves it opened: its work, which the
+// answer cannot show (a looser box or a worse order of search costs time only), so tests bound it.
+func (r *Route) search(qq *query) (seg, opened int) {
 	best := math.Inf(1) // smallest squared chord so far
 	thr := math.Inf(1)  // (√best + tieTolRad)²: anything farther can be neither best nor tied
 	var cand [maxTies]struct {
@@ -481,6 +508,7 @@ func (r *Route) nearest(qq *query) int {
 		if e.lb2 > thr {
 			continue
 		}
+		opened++
 		if e.code < 0 { // a leaf
 			for k := ^e.code; ; k++ {
 				it := &r.items[k]
@@ -538,7 +566,7 @@ func (r *Route) nearest(qq *query) int {
 		}
 	}
 	if overflow {
-		return r.firstWithin(qq, chordAngle(best)+tieTolRad)
+		return r.firstWithin(qq, chordAngle(best)+tieTolRad), opened
 	}
 	// Resolve ties exactly, in angles (only the rare near-ties pay for the arcsines).
 	win, limit := math.MaxInt, -1.0
@@ -556,7 +584,7 @@ func (r *Route) nearest(qq *query) int {
 		}
 		win = cand[j].seg
 	}
-	return win
+	return win, opened
 }
 
 // firstWithin returns the smallest segment index (≥ qq.u) whose closest point is within limitRad of

@@ -298,7 +298,7 @@ func TestPropMedianOfMediansPivot(t *testing.T) {
 		for i, k := range keys {
 			es[i] = buildEntry{centre: [3]float64{0, 0, k}, seg: int32(i)}
 		}
-		p := pivotMedianOfMedians(es, 0, n, 2)
+		p, _ := pivotMedianOfMedians(es, 0, n, 2)
 		rank := 0
 		for i := range es {
 			if es[i].less(&es[p], 2) {
