@@ -598,3 +598,33 @@ func TestVertexRuleAtTheUsersVertex(t *testing.T) {
 		}
 	}
 }
+
+// TestTieFoundSecond: ties go to the smaller along-route position also when
+// the search meets the nearer, later stretch first. A hairpin whose
+// outbound stretch runs north of the equator and whose return runs south,
+// then a road far north: the tree puts the return (segment 2) in the leaf
+// nearer a marker on the equator, so it is met first; a marker 0.6e-6 m
+// nearer the return than the outbound is tied, and the outbound (segment
+// 0) wins; 1.4e-6 m nearer, the return wins.
+func TestTieFoundSecond(t *testing.T) {
+	r := mustRoute(t, []orb.Point{{0, 0.001}, {0.01, 0.001}, {0.01, -0.001}, {0, -0.001}, {0, 1}, {0.5, 1}})
+	if r.items[0].seg != 2 {
+		t.Fatalf("the tree's first leaf starts with segment %d, want the return stretch (2): the test's premise", r.items[0].seg)
+	}
+	for _, c := range []struct {
+		name    string
+		southM  float64 // marker's shift south of the equator, metres (mean-radius sphere)
+		wantSeg int
+	}{
+		{"0.6e-6 m nearer the return: tied, the outbound", 0.3e-6, 0},
+		{"1.4e-6 m nearer the return: the return", 0.7e-6, 2},
+	} {
+		q := orb.Point{0.005, -c.southM * degPerM}
+		if got := r.Snap(q).Segment; got != c.wantSeg {
+			t.Errorf("%s: Snap(%v).Segment = %d, want %d", c.name, q, got, c.wantSeg)
+		}
+		if m := checkAgreesWithScan(t, r, r.PlaceAt(0), q); m.Closest.Segment != c.wantSeg {
+			t.Errorf("%s: Metrics(start, %v).Closest.Segment = %d, want %d", c.name, q, m.Closest.Segment, c.wantSeg)
+		}
+	}
+}

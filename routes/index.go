@@ -62,13 +62,20 @@ func arcBox(sg *segment) (lo, hi r3.Vector) {
 	return lo, hi
 }
 
-// toBox32 rounds the box [lo, hi] outwards into a box32.
+// toBox32 rounds the box [lo, hi] outwards into a box32: about the float32 nearest its centre,
+// the least float32 half-extents that hold both corners as the queries measure it (gap).
 func toBox32(lo, hi r3.Vector) box32 {
 	axis := func(l, h float64) (float32, float32) {
 		c := float32((l + h) / 2)
-		e := math.Max(h-float64(c), float64(c)-l) // exact: c is representable in float64
-		e32 := float32(e)
-		if float64(e32) < e {
+		cf := float64(c)
+		// The distances from c to the corners are rounded (l − c is not exact when l is far
+		// smaller than c), so the half-extent is found by stepping from their float32 rounding.
+		holds := func(e float32) bool { return gap(l, cf, float64(e)) == 0 && gap(h, cf, float64(e)) == 0 }
+		e32 := float32(math.Max(h-cf, cf-l))
+		for e32 > 0 && holds(math.Nextafter32(e32, 0)) {
+			e32 = math.Nextafter32(e32, 0)
+		}
+		for !holds(e32) {
 			e32 = math.Nextafter32(e32, float32(math.Inf(1)))
 		}
 		return c, e32
@@ -127,9 +134,9 @@ type treeBuilder struct {
 	boxes []segBox     // each segment's box (arcBox), by segment index
 	nodes []node
 	items []item
-	// partitioned counts the entries the splits' selections partitioned: the build's work, which
-	// the tree cannot show (a worse pivot costs time only), so tests bound it.
-	partitioned int
+	// work counts the entries the splits' selections partitioned (selectNth): the build's work,
+	// which the tree cannot show (a worse pivot costs time only), so tests bound it.
+	work int
 }
 
 // buildEntry is a segment while the tree is built: the centre of its box (unit-sphere units) and
@@ -160,7 +167,7 @@ func (b *treeBuilder) build(first, last int) subtree {
 	}
 	axis := b.widestAxis(first, last)
 	mid := (first + last) / 2
-	b.partitioned += selectNth(b.es[first:last], mid-first, axis)
+	b.work += selectNth(b.es[first:last], mid-first, axis)
 	idx := int32(len(b.nodes))
 	b.nodes = append(b.nodes, node{})
 	l := b.build(first, mid)
@@ -232,9 +239,9 @@ func (e *buildEntry) less(f *buildEntry, axis int) bool {
 // O(len(es)) at worst: pivots are medians of three (ninthers on long ranges), and should those
 // shrink the range too slowly, so that the ranges partitioned add up to more than
 // selectWorkFactor·len(es), the rest goes with the median of medians, which always shrinks it by
-// 3/10 or more. It returns how many entries it partitioned, those of the median of medians
-// included: its work, O(len(es)).
-func selectNth(es []buildEntry, k, axis int) (partitioned int) {
+// 3/10 or more. It returns its work: how many entries it partitioned, with those the median of
+// medians sorted in groups of five or partitioned, O(len(es)).
+func selectNth(es []buildEntry, k, axis int) (work int) {
 	return selectNthWithin(es, k, axis, selectWorkFactor*len(es))
 }
 
@@ -252,18 +259,18 @@ const selectSmall = 12
 const _ = uint(selectSmall - (2*leafSegs + 1))
 
 // selectNthWithin is selectNth with the cheap pivots' budget given, in entries partitioned.
-func selectNthWithin(es []buildEntry, k, axis, budget int) (partitioned int) {
+func selectNthWithin(es []buildEntry, k, axis, budget int) (work int) {
 	lo, hi := 0, len(es)
 	for hi-lo > selectSmall {
 		budget -= hi - lo
-		partitioned += hi - lo
+		work += hi - lo
 		var p int
 		if budget >= 0 {
 			p = pivotNinther(es, lo, hi, axis)
 		} else {
 			var w int
 			p, w = pivotMedianOfMedians(es, lo, hi, axis)
-			partitioned += w
+			work += w
 		}
 		p = partitionAround(es, lo, hi, p, axis)
 		switch {
@@ -272,11 +279,11 @@ func selectNthWithin(es []buildEntry, k, axis, budget int) (partitioned int) {
 		case k > p:
 			lo = p + 1
 		default:
-			return partitioned
+			return work
 		}
 	}
 	insertionSort(es[lo:hi], axis)
-	return partitioned
+	return work
 }
 
 // partitionAround reorders es[lo:hi] around the pivot es[p]: entries less than it, then it, then
@@ -340,17 +347,17 @@ func median3(es []buildEntry, a, b, c, axis int) int {
 // pivotMedianOfMedians returns the index of a pivot for es[lo:hi] (at least 5 entries) with at
 // least 3/10 of the range, less a few entries, on each side: the median of the medians of groups
 // of five (Blum, Floyd, Pratt, Rivest and Tarjan, "Time bounds for selection", 1973). It gathers
-// the medians at the front of the range, and returns with the pivot the entries its selection of
-// the median partitioned.
-func pivotMedianOfMedians(es []buildEntry, lo, hi, axis int) (p, partitioned int) {
+// the medians at the front of the range, and returns with the pivot its work: the entries it
+// sorted in groups of five and those its selection of the median partitioned.
+func pivotMedianOfMedians(es []buildEntry, lo, hi, axis int) (p, work int) {
 	g := 0
 	for i := lo; i+5 <= hi; i += 5 {
 		insertionSort(es[i:i+5], axis)
 		es[lo+g], es[i+2] = es[i+2], es[lo+g] // lo+g lies in a group already done
 		g++
 	}
-	partitioned = selectNth(es[lo:lo+g], g/2, axis)
-	return lo + g/2, partitioned
+	work = 5*g + selectNth(es[lo:lo+g], g/2, axis)
+	return lo + g/2, work
 }
 
 // insertionSort sorts es by less along axis.
@@ -566,7 +573,8 @@ func (r *Route) search(qq *query) (seg, opened int) {
 		}
 	}
 	if overflow {
-		return r.firstWithin(qq, chordAngle(best)+tieTolRad), opened
+		win, o := r.firstWithin(qq, chordAngle(best)+tieTolRad)
+		return win, opened + o
 	}
 	// Resolve ties exactly, in angles (only the rare near-ties pay for the arcsines).
 	win, limit := math.MaxInt, -1.0
@@ -588,8 +596,8 @@ func (r *Route) search(qq *query) (seg, opened int) {
 }
 
 // firstWithin returns the smallest segment index (≥ qq.u) whose closest point is within limitRad of
-// Q. The caller knows one exists.
-func (r *Route) firstWithin(qq *query, limitRad float64) int {
+// Q, and the nodes and leaves it opened. The caller knows one exists.
+func (r *Route) firstWithin(qq *query, limitRad float64) (seg, opened int) {
 	ch := 2 * math.Sin(limitRad/2)
 	thr := ch * ch
 	var stack [stackCap]int32
@@ -602,6 +610,7 @@ func (r *Route) firstWithin(qq *query, limitRad float64) int {
 	for sp > 0 {
 		sp--
 		code := stack[sp]
+		opened++
 		if code < 0 {
 			for k := ^code; ; k++ {
 				it := &r.items[k]
@@ -624,5 +633,5 @@ func (r *Route) firstWithin(qq *query, limitRad float64) int {
 			}
 		}
 	}
-	return int(win)
+	return int(win), opened
 }

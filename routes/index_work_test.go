@@ -143,10 +143,10 @@ func TestBuildPartitionsLinearly(t *testing.T) {
 		b.build(0, len(r.segs))
 		m := len(r.segs)
 		levels := math.Ceil(math.Log2(float64(m) / leafSegs))
-		if limit := 3 * float64(m) * levels; float64(b.partitioned) > limit {
-			t.Errorf("%s route of %d segments: the build partitioned %d entries, want at most 3·n·levels = %.0f", kind, m, b.partitioned, limit)
+		if limit := 3 * float64(m) * levels; float64(b.work) > limit {
+			t.Errorf("%s route of %d segments: the build partitioned %d entries, want at most 3·n·levels = %.0f", kind, m, b.work, limit)
 		}
-		t.Logf("%s: %d segments, %.2f·n a level", kind, m, float64(b.partitioned)/float64(m)/levels)
+		t.Logf("%s: %d segments, %.2f·n a level", kind, m, float64(b.work)/float64(m)/levels)
 	}
 }
 
@@ -255,4 +255,46 @@ func TestPivotNinther(t *testing.T) {
 			t.Fatalf("pivotNinther of %d entries from %d: index %d (key %g), want %d (key %g)", n, lo, got, key(got), want, key(want))
 		}
 	})
+}
+
+// TestTieOverflowOpensLittle: a road driven ten times over the same
+// vertices ties ten segments at every point, more than the search keeps
+// (maxTies), so the search goes again for the first within the tie
+// (firstWithin): the two passes together open at most 2.5 times the
+// nodes any search must open, and the first drive of the road wins.
+func TestTieOverflowOpensLittle(t *testing.T) {
+	road := make([]orb.Point, 21)
+	for i := range road {
+		road[i] = orb.Point{2 + 0.0005*float64(i), 45 + 0.0001*float64(i%2)}
+	}
+	pts := append([]orb.Point(nil), road...)
+	for pass := 1; pass < 10; pass++ {
+		for i := 1; i < len(road); i++ {
+			j := i
+			if pass%2 == 1 {
+				j = len(road) - 1 - i
+			}
+			pts = append(pts, road[j])
+		}
+	}
+	r := mustRoute(t, pts)
+	rng := rand.New(rand.NewPCG(6, 6))
+	opened, necessary := 0, 0
+	for range 50 {
+		along := rng.Float64() * r.Segment(19).StartM
+		p := r.PointAt(along)
+		q := orb.Point{p[0], p[1] + 0.0003}
+		qv, _, _ := unitVec(q)
+		qq := query{q: qv, u: 0, cl: 1, sl: 0, lo: r.segs[0].a}
+		_, o := r.search(&qq)
+		if got, want := r.Snap(q).Segment, r.snapScan(q).Segment; got != want || got >= 20 {
+			t.Fatalf("marker %v: Snap gives segment %d, want %d (snapScan), on the first drive", q, got, want)
+		}
+		opened += o
+		necessary += necessaryOpens(r, &qq, bestChord(r, &qq))
+	}
+	if 2*opened > 5*necessary {
+		t.Errorf("50 markers opened %d nodes, more than 2.5 times the %d necessary", opened, necessary)
+	}
+	t.Logf("%.1f opened a query, %.1f necessary", float64(opened)/50, float64(necessary)/50)
 }

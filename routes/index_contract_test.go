@@ -1,0 +1,288 @@
+package routes
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"github.com/golang/geo/r3"
+	"github.com/paulmach/orb"
+	"pgregory.net/rapid"
+)
+
+// The index's helpers, each against its documented contract, where the
+// answers of the queries would not tell a mistake from a slower search.
+
+// keyed returns n entries with the keys along axis 0 given by key(i).
+func keyed(n int, key func(i int) float64) []buildEntry {
+	es := make([]buildEntry, n)
+	for i := range es {
+		es[i] = buildEntry{centre: [3]float64{key(i)}, seg: int32(i)}
+	}
+	return es
+}
+
+// TestSelectNthSortsSmallRanges: a range of selectSmall entries or fewer is
+// sorted outright (no partition); one of selectSmall + 1 is partitioned
+// once, which leaves at most selectSmall entries to sort, whatever the
+// order and k. A budget of exactly the range's length still allows the
+// cheap pivot; one entry less turns to the median of medians at once,
+// which sorts the two groups of five it finds as well.
+func TestSelectNthSortsSmallRanges(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	orders := map[string]func(i int) float64{
+		"ascending":  func(i int) float64 { return float64(i) },
+		"descending": func(i int) float64 { return float64(-i) },
+		"random":     func(int) float64 { return rng.Float64() },
+		"two keys":   func(i int) float64 { return float64(i % 2) },
+	}
+	for name, key := range orders {
+		for n := 1; n <= selectSmall+1; n++ {
+			want := 0
+			if n > selectSmall {
+				want = n
+			}
+			for k := range n {
+				if w := selectNth(keyed(n, key), k, 0); w != want {
+					t.Errorf("%s keys, n = %d, k = %d: selectNth's work %d, want %d", name, n, k, w, want)
+				}
+			}
+		}
+		n := selectSmall + 1
+		for k := range n {
+			if w := selectNthWithin(keyed(n, key), k, 0, n); w != n {
+				t.Errorf("%s keys, n = %d, k = %d, budget n: work %d, want %d (one cheap partition)", name, n, k, w, n)
+			}
+			if w := selectNthWithin(keyed(n, key), k, 0, n-1); w != n+10 {
+				t.Errorf("%s keys, n = %d, k = %d, budget n − 1: work %d, want %d (the median of medians: two groups of five, then one partition)", name, n, k, w, n+10)
+			}
+		}
+	}
+}
+
+// TestPivotNintherAtTheSwitch: TestPivotNinther's contract at the sizes
+// where the rule changes (127 and 128 entries) and at its smallest.
+func TestPivotNintherAtTheSwitch(t *testing.T) {
+	rng := rand.New(rand.NewPCG(4, 4))
+	for _, n := range []int{3, 4, 5, 126, 127, 128, 129, 1000} {
+		for range 20 {
+			es := keyed(n, func(int) float64 { return rng.Float64() })
+			med := func(a, b, c int) int {
+				x := []int{a, b, c}
+				for i := 1; i < 3; i++ {
+					for j := i; j > 0 && es[x[j]].less(&es[x[j-1]], 0); j-- {
+						x[j], x[j-1] = x[j-1], x[j]
+					}
+				}
+				return x[1]
+			}
+			m := n / 2
+			want := med(n/4, m, n-1-n/4)
+			if n >= 128 {
+				s := n / 8
+				want = med(med(0, s, 2*s), med(m-s, m, m+s), med(n-1-2*s, n-1-s, n-1))
+			}
+			if got := pivotNinther(es, 0, n, 0); got != want {
+				t.Fatalf("pivotNinther of %d entries: index %d, want %d", n, got, want)
+			}
+		}
+	}
+}
+
+// TestMedianOfMediansIsMedianOfGroups: the pivot is the median of the
+// medians of the ⌊n/5⌋ consecutive groups of five, whole groups only (Blum
+// et al. 1973), as the doc comment says.
+func TestMedianOfMediansIsMedianOfGroups(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		n := rapid.IntRange(5, 120).Draw(t, "n")
+		lo := rapid.IntRange(0, 7).Draw(t, "lo")
+		keys := rapid.SliceOfN(rapid.Float64Range(0, 1), lo+n, lo+n).Draw(t, "keys")
+		es := keyed(lo+n, func(i int) float64 { return keys[i] })
+		var medians []buildEntry
+		for i := lo; i+5 <= lo+n; i += 5 {
+			g := append([]buildEntry(nil), es[i:i+5]...)
+			insertionSort(g, 0)
+			medians = append(medians, g[2])
+		}
+		insertionSort(medians, 0)
+		want := medians[len(medians)/2]
+		p, _ := pivotMedianOfMedians(es, lo, lo+n, 0)
+		if es[p] != want {
+			t.Fatalf("pivotMedianOfMedians of %d entries from %d: %+v, want the median of the %d group medians %+v", n, lo, es[p], len(medians), want)
+		}
+	})
+}
+
+// TestToBox32Tight: the float32 box holds the float64 one and is the
+// tightest with its centre: its half-extents are the least float32 values
+// that reach both corners, exact where the corners are.
+func TestToBox32Tight(t *testing.T) {
+	for _, c := range []struct {
+		desc   string
+		lo, hi r3.Vector
+		want   box32
+	}{
+		{"unit cube", r3.Vector{}, r3.Vector{X: 1, Y: 1, Z: 1}, box32{0.5, 0.5, 0.5, 0.5, 0.5, 0.5}},
+		{"about the origin", r3.Vector{X: -1, Y: -0.25, Z: -2}, r3.Vector{X: 1, Y: 0.25, Z: 2}, box32{0, 0, 0, 1, 0.25, 2}},
+		{"a point", r3.Vector{X: 0.5, Y: -0.75, Z: 0.125}, r3.Vector{X: 0.5, Y: -0.75, Z: 0.125}, box32{0.5, -0.75, 0.125, 0, 0, 0}},
+	} {
+		if got := toBox32(c.lo, c.hi); got != c.want {
+			t.Errorf("%s: toBox32(%v, %v) = %+v, want %+v", c.desc, c.lo, c.hi, got, c.want)
+		}
+	}
+	// Found by the property below: a corner far smaller than the centre
+	// (l − c rounded to −c) was left outside by 5e-20.
+	if b := toBox32(r3.Vector{X: -5.4210108624275222e-20}, r3.Vector{X: 0.001}); gap(-5.4210108624275222e-20, float64(b.cx), float64(b.ex)) != 0 {
+		t.Errorf("toBox32 of [-5.42e-20, 0.001] = centre %g, half-extent %g: does not hold the lower corner", b.cx, b.ex)
+	}
+	rapid.Check(t, func(t *rapid.T) {
+		l := rapid.Float64Range(-1, 1).Draw(t, "lo")
+		h := l + rapid.Float64Range(0, 1e-3).Draw(t, "width")
+		b := toBox32(r3.Vector{X: l}, r3.Vector{X: h})
+		c, e := float64(b.cx), float64(b.ex)
+		// In the box as the queries measure it (gap, the distance to the box, is 0).
+		if gap(l, c, e) != 0 || gap(h, c, e) != 0 {
+			t.Fatalf("toBox32 of [%.17g, %.17g]: [%.17g, %.17g] does not hold it", l, h, c-e, c+e)
+		}
+		if e > 0 {
+			e0 := float64(math.Nextafter32(b.ex, 0))
+			if gap(l, c, e0) == 0 && gap(h, c, e0) == 0 {
+				t.Fatalf("toBox32 of [%.17g, %.17g]: half-extent %.9g, but %.9g already holds it", l, h, e, e0)
+			}
+		}
+	})
+}
+
+// TestArcBoxHoldsItsEnds: an arc's box holds both its ends exactly, even
+// on arcs shorter than the padding's scale (centimetres to a metre), where
+// the bulge is below the padding.
+func TestArcBoxHoldsItsEnds(t *testing.T) {
+	rng := rand.New(rand.NewPCG(8, 1))
+	for _, stepM := range []float64{0.01, 0.1, 1, 30} {
+		pts := []orb.Point{{13.405, 52.52}}
+		for range 50 {
+			pts = append(pts, offsetPoint(pts[len(pts)-1], rng.Float64()*360, stepM))
+		}
+		r := mustRoute(t, pts)
+		for i := range r.segs {
+			sg := &r.segs[i]
+			lo, hi := arcBox(sg)
+			for _, p := range []r3.Vector{sg.a, sg.b} {
+				if p.X < lo.X || p.Y < lo.Y || p.Z < lo.Z || p.X > hi.X || p.Y > hi.Y || p.Z > hi.Z {
+					t.Fatalf("%g m steps, segment %d: box [%v, %v] does not hold its end %v", stepM, i, lo, hi, p)
+				}
+			}
+		}
+	}
+}
+
+// TestNewAllocatesAFixedNumber: New allocates the same number of times
+// whatever the route's length (each slice once, at its final size), from 2
+// vertices to 2,000: an index whose node slice were made too small would
+// grow it by appending.
+func TestNewAllocatesAFixedNumber(t *testing.T) {
+	rng := rand.New(rand.NewPCG(2, 8))
+	var want float64
+	for _, n := range []int{2, 3, 5, 6, 7, 9, 10, 13, 17, 33, 100, 2000} {
+		pts := cityRoute(rng, orb.Point{13.405, 52.52}, n, 50)
+		got := testing.AllocsPerRun(5, func() {
+			if _, err := New(pts, []float64{10}); err != nil {
+				t.Fatal(err)
+			}
+		})
+		if want == 0 {
+			want = got
+		}
+		if got != want {
+			t.Errorf("New of %d vertices: %g allocations, want %g (as for 2 vertices)", n, got, want)
+		}
+	}
+}
+
+// closestOracle is the closest point of the considered part of arc sg to
+// q, worked out another way: the foot is q projected on the arc's plane
+// and normalised, its angle from a by atan2; it counts when its angle lies
+// between the start's s0 and the arc's theta, else the nearer end (the
+// start on a tie within tieTolM). It returns the squared chord and where.
+func closestOracle(sg *segment, q r3.Vector, s0 float64, start r3.Vector) (c2 float64, at int) {
+	p := q.Sub(sg.n.Mul(q.Dot(sg.n)))
+	if p.Norm() > 0 {
+		s := math.Atan2(p.Dot(sg.t), p.Dot(sg.a))
+		if s >= s0 && s <= sg.theta {
+			return q.Sub(p.Normalize()).Norm2(), atFoot
+		}
+	}
+	// The ends tie within the tie tolerance as angles (SPEC §4), the start winning.
+	dLo, dHi := q.Sub(start).Norm2(), q.Sub(sg.b).Norm2()
+	angle := func(c2 float64) float64 { return 2 * math.Asin(math.Min(1, math.Sqrt(c2)/2)) }
+	if angle(dHi) < angle(dLo)-tieTolM/meanRadiusM {
+		return dHi, atEnd
+	}
+	return dLo, atLo
+}
+
+// TestArcClosestAgainstOracle: arcClosest agrees with closestOracle on
+// points all round arcs of 1 m to 1,000 km, over the whole arc and from a
+// user's place on it (the start moved along the arc), to 1e-12 in the
+// squared chord and in where the point lies, away from the places where
+// two answers are a rounding apart (the foot within 1e-9 rad of an end).
+func TestArcClosestAgainstOracle(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		a := orb.Point{rapid.Float64Range(-180, 180).Draw(t, "lon"), rapid.Float64Range(-80, 80).Draw(t, "lat")}
+		b := offsetPoint(a, rapid.Float64Range(0, 360).Draw(t, "bearing"), logUniform(t, 1, 1e6, "length_m"))
+		r, err := New([]orb.Point{a, b}, []float64{10})
+		if err != nil {
+			t.Skip(err)
+		}
+		sg := &r.segs[0]
+		frac := 0.0
+		if rapid.Bool().Draw(t, "from_user") {
+			frac = rapid.Float64Range(0, 1).Draw(t, "user_frac")
+		}
+		s0 := frac * sg.theta
+		sl, cl := math.Sincos(s0)
+		start := sg.a.Mul(cl).Add(sg.t.Mul(sl))
+		if frac == 0 {
+			cl, sl, start = 1, 0, sg.a
+		}
+		// Q around the arc: along it from before its start to past its end, off it to either side.
+		along := rapid.Float64Range(-0.5, 1.5).Draw(t, "q_along_frac") * sg.theta
+		off := rapid.Float64Range(-1, 1).Draw(t, "q_off_frac") * max(sg.theta, 1e-4)
+		sa, ca := math.Sincos(along)
+		so, co := math.Sincos(off)
+		q := sg.a.Mul(ca).Add(sg.t.Mul(sa)).Mul(co).Add(sg.n.Mul(so))
+		qq := query{q: q, u: 0, cl: cl, sl: sl, lo: start}
+		c2, at, _, _ := arcClosest(&sg.arc, frac != 0, &qq)
+		wantC2, wantAt := closestOracle(sg, q, s0, start)
+		if math.Abs(c2-wantC2) > 1e-12*max(1, wantC2) {
+			t.Fatalf("arcClosest squared chord %.17g (at %d), oracle %.17g (at %d)", c2, at, wantC2, wantAt)
+		}
+		if near := math.Min(math.Abs(along-s0), math.Abs(along-sg.theta)); at != wantAt && near > 1e-9 {
+			t.Fatalf("arcClosest at %d, oracle at %d (squared chords %.17g, %.17g)", at, wantAt, c2, wantC2)
+		}
+	})
+}
+
+// TestArcClosestFootOnAnEnd: a point whose foot falls exactly on an end of
+// the arc (Q in the plane through that end and the pole, the coordinates
+// exact) has its closest point at the foot: the arc's ends belong to it.
+func TestArcClosestFootOnAnEnd(t *testing.T) {
+	// A quarter of the equator from (1, 0, 0) to (0, 1, 0): t = (0, 1, 0),
+	// n = (0, 0, 1), b = a·0 + t·1.
+	sg := arc{a: r3.Vector{X: 1}, b: r3.Vector{Y: 1}, t: r3.Vector{Y: 1}, n: r3.Vector{Z: 1}, cosT: 0, sinT: 1}
+	for _, c := range []struct {
+		desc string
+		q    r3.Vector
+	}{
+		{"above the start", r3.Vector{X: 0.6, Z: 0.8}},
+		{"below the start", r3.Vector{X: 0.6, Z: -0.8}},
+		{"above the end", r3.Vector{Y: 0.6, Z: 0.8}},
+		{"below the end", r3.Vector{Y: 0.6, Z: -0.8}},
+	} {
+		qq := query{q: c.q, u: 0, cl: 1, sl: 0, lo: sg.a}
+		c2, at, _, _ := arcClosest(&sg, false, &qq)
+		if want := 0.4*0.4 + 0.8*0.8; at != atFoot || math.Abs(c2-want) > 1e-15 {
+			t.Errorf("%s %v: squared chord %.17g at %d, want %.17g at the foot (%d)", c.desc, c.q, c2, at, want, atFoot)
+		}
+	}
+}
