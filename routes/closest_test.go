@@ -628,3 +628,34 @@ func TestTieFoundSecond(t *testing.T) {
 		}
 	}
 }
+
+// TestManyTiedStretchesFromUser: the second pass of a many-way tie
+// (firstWithin) considers the user's own segment from the user's place on,
+// and the user's segment itself: a road driven twenty times over one
+// segment each way, so that all twenty arcs are the same and the tree's
+// leaves are runs of consecutive segments.
+func TestManyTiedStretchesFromUser(t *testing.T) {
+	a, b := orb.Point{2, 45}, orb.Point{2.01, 45}
+	pts := []orb.Point{a}
+	for i := range 20 {
+		pts = append(pts, [2]orb.Point{b, a}[i%2])
+	}
+	r := mustRoute(t, pts)
+	for _, c := range []struct {
+		desc    string
+		userM   float64 // along the route
+		marker  orb.Point
+		wantSeg int
+	}{
+		// The user on the second drive (segment 1, the last of a leaf {0, 1}): it wins.
+		{"user on the second drive, marker ahead", r.Segment(1).StartM + 100, orb.Point{2.002, 45.0003}, 1},
+		// The user in the middle of the fifth drive (segment 4, eastward like the first): a marker
+		// beside its start is behind the user on it, and the sixth drive passes it first.
+		{"user mid fifth drive, marker behind", r.Segment(4).StartM + r.Segment(4).LengthM/2, orb.Point{2.001, 45.0003}, 5},
+	} {
+		m := checkAgreesWithScan(t, r, r.PlaceAt(c.userM), c.marker)
+		if m.Closest.Segment != c.wantSeg {
+			t.Errorf("%s: Metrics(...).Closest.Segment = %d, want %d", c.desc, m.Closest.Segment, c.wantSeg)
+		}
+	}
+}

@@ -260,8 +260,8 @@ func TestPivotNinther(t *testing.T) {
 // TestTieOverflowOpensLittle: a road driven ten times over the same
 // vertices ties ten segments at every point, more than the search keeps
 // (maxTies), so the search goes again for the first within the tie
-// (firstWithin): the two passes together open at most 2.5 times the
-// nodes any search must open, and the first drive of the road wins.
+// (firstWithin): the two passes together open 1.8 to 2.5 times the nodes
+// any search must open, and the first drive of the road wins.
 func TestTieOverflowOpensLittle(t *testing.T) {
 	road := make([]orb.Point, 21)
 	for i := range road {
@@ -293,8 +293,10 @@ func TestTieOverflowOpensLittle(t *testing.T) {
 		opened += o
 		necessary += necessaryOpens(r, &qq, bestChord(r, &qq))
 	}
-	if 2*opened > 5*necessary {
-		t.Errorf("50 markers opened %d nodes, more than 2.5 times the %d necessary", opened, necessary)
+	// Each pass opens about the necessary nodes (the second's threshold is the first's final
+	// one, as an angle), so the two open about twice them.
+	if 2*opened > 5*necessary || 5*opened < 9*necessary {
+		t.Errorf("50 markers opened %d nodes, want 1.8 to 2.5 times the %d necessary (two passes)", opened, necessary)
 	}
 	t.Logf("%.1f opened a query, %.1f necessary", float64(opened)/50, float64(necessary)/50)
 }
