@@ -659,3 +659,34 @@ func TestManyTiedStretchesFromUser(t *testing.T) {
 		}
 	}
 }
+
+// TestTieComparedAsAngles: ties are judged on spherical distances (SPEC
+// §4: within 1e-6 m as an angle at the mean radius), not on chords, which
+// differ from them by the factor cos(θ/2) far from the route. A marker 50°
+// south of a crossing of two stretches, A along the equator (segment 0) and
+// B through the same point tilted by α (segment 2), is farther from A than
+// from B by asin(sin 50°) − asin(sin 50°·cos α) ≈ α²·tan 50°/2 (worked by
+// hand on the unit sphere: B's pole is (0, −sin α, cos α)). At 1.05e-6 m the
+// chords differ by cos 25° of it, 0.95e-6 m, within the tolerance as chords
+// but not as angles: B wins. At 0.95e-6 m both are within: A, the earlier,
+// wins.
+func TestTieComparedAsAngles(t *testing.T) {
+	q := orb.Point{0, -50}
+	for _, c := range []struct {
+		diffM   float64 // how much nearer B is, as an angle at the mean radius
+		wantSeg int
+	}{
+		{1.05e-6, 2},
+		{0.95e-6, 0},
+	} {
+		alpha := math.Sqrt(2 * c.diffM / meanRadiusM / math.Tan(50*degRad))
+		dLat := 0.01 * math.Tan(alpha) // B from (0.01, −dLat) to (−0.01, dLat) crosses (0, 0) at α
+		r := mustRoute(t, []orb.Point{{-0.01, 0}, {0.01, 0}, {0.01, -dLat}, {-0.01, dLat}})
+		if got := r.Snap(q).Segment; got != c.wantSeg {
+			t.Errorf("B nearer by %g m: Snap(%v).Segment = %d, want %d", c.diffM, q, got, c.wantSeg)
+		}
+		if got := r.snapScan(q).Segment; got != c.wantSeg {
+			t.Errorf("B nearer by %g m: snapScan(%v).Segment = %d, want %d", c.diffM, q, got, c.wantSeg)
+		}
+	}
+}

@@ -84,6 +84,24 @@ func TestCheapPivotsSuffice(t *testing.T) {
 	}
 }
 
+// TestMedianOfMediansPivotWork: the pivot's own work is the ⌊n/5⌋ groups
+// of five it sorts and the selection of their median: none for up to 12
+// medians (sorted outright), and one partition of all 13 at 65 to 69
+// entries (TestSelectNthSortsSmallRanges).
+func TestMedianOfMediansPivotWork(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 5))
+	for n := 5; n <= 69; n++ {
+		es := keyed(n, func(int) float64 { return rng.Float64() })
+		want := 5 * (n / 5)
+		if n/5 == 13 {
+			want += 13
+		}
+		if _, w := pivotMedianOfMedians(es, 0, n, 0); w != want {
+			t.Errorf("pivotMedianOfMedians of %d entries: work %d, want %d", n, w, want)
+		}
+	}
+}
+
 // TestMedianOfMediansWork: with no budget, selection by medians of medians
 // alone sorts ⌊n/5⌋ groups of five and partitions the whole range at each
 // step, and from 65 entries (13 medians) on partitions the medians too: at
@@ -307,6 +325,7 @@ func TestArcClosestAgainstOracle(t *testing.T) {
 // TestArcClosestFootOnAnEnd: a point whose foot falls exactly on an end of
 // the arc (Q in the plane through that end and the pole, the coordinates
 // exact) has its closest point at the foot: the arc's ends belong to it.
+// And a foot behind the user's place is not taken.
 func TestArcClosestFootOnAnEnd(t *testing.T) {
 	// A quarter of the equator from (1, 0, 0) to (0, 1, 0): t = (0, 1, 0),
 	// n = (0, 0, 1), b = a·0 + t·1.
@@ -325,5 +344,18 @@ func TestArcClosestFootOnAnEnd(t *testing.T) {
 		if want := 0.4*0.4 + 0.8*0.8; at != atFoot || math.Abs(c2-want) > 1e-15 {
 			t.Errorf("%s %v: squared chord %.17g at %d, want %.17g at the foot (%d)", c.desc, c.q, c2, at, want, atFoot)
 		}
+	}
+	// From a user's place 0.25 rad along the arc, a point whose foot lies
+	// 0.005 rad behind it (0.01 rad off the arc) has its closest point at
+	// the user's place: the foot's angle 0.245 is below the start's, so
+	// y·cos s₀ − x·sin s₀ = sin(0.245 − 0.25)·cos(0.01) < 0.
+	s0, phi := 0.25, 0.245
+	sl, cl := math.Sincos(s0)
+	lo := sg.a.Mul(cl).Add(sg.t.Mul(sl))
+	sp, cp := math.Sincos(phi)
+	q := sg.a.Mul(cp).Add(sg.t.Mul(sp)).Mul(math.Cos(0.01)).Add(sg.n.Mul(math.Sin(0.01)))
+	qq := query{q: q, u: 0, cl: cl, sl: sl, lo: lo}
+	if c2, at, _, _ := arcClosest(&sg, true, &qq); at != atLo || math.Abs(c2-q.Sub(lo).Norm2()) > 1e-15 {
+		t.Errorf("foot behind the user's place: squared chord %.17g at %d, want %.17g at the user's place (%d)", c2, at, q.Sub(lo).Norm2(), atLo)
 	}
 }
