@@ -75,7 +75,7 @@ func toBox32(lo, hi r3.Vector) box32 {
 		for e32 > 0 && holds(math.Nextafter32(e32, 0)) {
 			e32 = math.Nextafter32(e32, 0)
 		}
-		for !holds(e32) {
+		for !holds(e32) && !math.IsInf(float64(e32), 1) { // an infinite extent holds anything
 			e32 = math.Nextafter32(e32, float32(math.Inf(1)))
 		}
 		return c, e32

@@ -186,6 +186,11 @@ func TestToBox32Tight(t *testing.T) {
 			t.Errorf("%s: toBox32(%v, %v) = %+v, want %+v", c.desc, c.lo, c.hi, got, c.want)
 		}
 	}
+	// A corner that is not finite (which no arc's box has) gives an
+	// infinite extent, not an endless search for one.
+	if b := toBox32(r3.Vector{X: 0}, r3.Vector{X: math.Inf(1)}); !math.IsInf(float64(b.ex), 1) {
+		t.Errorf("toBox32 of [0, +Inf]: half-extent %g, want +Inf", b.ex)
+	}
 	// Found by the property below: a corner far smaller than the centre
 	// (l − c rounded to −c) was left outside by 5e-20.
 	if b := toBox32(r3.Vector{X: -5.4210108624275222e-20}, r3.Vector{X: 0.001}); gap(-5.4210108624275222e-20, float64(b.cx), float64(b.ex)) != 0 {

@@ -50,16 +50,17 @@ func (v *View) Footprint() Footprint {
 	fp.uv = uv
 	fp.NearRowPx, fp.FarRowPx = near, far
 	fp.Wrapped = v.wrapped
+	gs := GroundScale(v.cam.LatDeg) // cos φ of the user's (clamped) latitude, for the ground distances
 	for i, q := range uv {
 		m := v.mercatorOf(q[0], q[1])
 		fp.Mercator[i] = m
 		fp.Vertices[i] = m.LatLon()
-		d := math.Hypot(q[0]-v.uA, q[1]-v.vA) / v.scale * v.groundScale
+		d := math.Hypot(q[0]-v.uA, q[1]-v.vA) / v.scale * gs
 		fp.VisibleRadiusM = max(fp.VisibleRadiusM, d)
 	}
 	// A trapezoid: height (v_far − v_near) times the mean of its widths.
 	areaPx := (uv[3][1] - uv[0][1]) * ((uv[1][0] - uv[0][0]) + (uv[2][0] - uv[3][0])) / 2
-	g := v.groundScale / v.scale
+	g := gs / v.scale
 	fp.AreaM2 = areaPx * g * g
 	return fp
 }
@@ -117,5 +118,5 @@ func (v *View) GroundDistM(fp *Footprint, m Mercator) (float64, bool) {
 	if inside {
 		return 0, true
 	}
-	return best / v.scale * v.groundScale, true
+	return best / v.scale * GroundScale(v.cam.LatDeg), true
 }

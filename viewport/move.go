@@ -99,7 +99,6 @@ func (v *View) placeKnown(c *Camera, sameDevice bool) error {
 	v.cam = *c
 
 	v.user = ToMercator(c.User())
-	v.groundScale = GroundScale(c.LatDeg)
 	v.target = Mercator{
 		X: v.user.X - (v.uA*v.cosH+v.vA*v.sinH)/v.scale,
 		Y: v.user.Y - (-v.uA*v.sinH+v.vA*v.cosH)/v.scale,

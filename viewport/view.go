@@ -38,7 +38,6 @@ type View struct {
 	left, right, top, bottom float64 // clear area, pixels (closed)
 	maxDepth                 float64 // k·f, pixels
 	farRow                   float64 // the screen row where depth = k·f; −Inf at pitch 0
-	groundScale              float64 // cos φ of the user's (clamped) latitude
 	wrapped                  bool
 
 	// The clear area's sides relative to the principal point, for the
