@@ -33,8 +33,10 @@ type Footprint struct {
 	// vertex (Mercator distance × cos φ_U), metres.
 	VisibleRadiusM float64
 
-	// The trapezoid in the ground frame (world pixels), for distances.
-	uv [4][2]float64
+	// The trapezoid in the ground frame (world pixels), and cos φ of the
+	// user's (clamped) latitude, for ground distances.
+	uv          [4][2]float64
+	groundScale float64
 }
 
 // Footprint returns the view's footprint. A top row at or above the horizon
@@ -47,10 +49,10 @@ func (v *View) Footprint() Footprint {
 		fp.Empty = true
 		return fp
 	}
-	fp.uv = uv
+	fp.uv, fp.groundScale = uv, GroundScale(v.cam.LatDeg)
 	fp.NearRowPx, fp.FarRowPx = near, far
 	fp.Wrapped = v.wrapped
-	gs := GroundScale(v.cam.LatDeg) // cos φ of the user's (clamped) latitude, for the ground distances
+	gs := fp.groundScale
 	for i, q := range uv {
 		m := v.mercatorOf(q[0], q[1])
 		fp.Mercator[i] = m
@@ -118,5 +120,5 @@ func (v *View) GroundDistM(fp *Footprint, m Mercator) (float64, bool) {
 	if inside {
 		return 0, true
 	}
-	return best / v.scale * GroundScale(v.cam.LatDeg), true
+	return best / v.scale * fp.groundScale, true
 }
