@@ -123,21 +123,7 @@ func TestPivotNintherAtTheSwitch(t *testing.T) {
 	for _, n := range []int{3, 4, 5, 126, 127, 128, 129, 1000} {
 		for range 20 {
 			es := keyed(n, func(int) float64 { return rng.Float64() })
-			med := func(a, b, c int) int {
-				x := []int{a, b, c}
-				for i := 1; i < 3; i++ {
-					for j := i; j > 0 && es[x[j]].less(&es[x[j-1]], 0); j-- {
-						x[j], x[j-1] = x[j-1], x[j]
-					}
-				}
-				return x[1]
-			}
-			m := n / 2
-			want := med(n/4, m, n-1-n/4)
-			if n >= 128 {
-				s := n / 8
-				want = med(med(0, s, 2*s), med(m-s, m, m+s), med(n-1-2*s, n-1-s, n-1))
-			}
+			want := documentedPivot(es, 0, n, 0)
 			if got := pivotNinther(es, 0, n, 0); got != want {
 				t.Fatalf("pivotNinther of %d entries: index %d, want %d", n, got, want)
 			}

@@ -160,10 +160,7 @@ func TestSelectNthPartitionsLinearly(t *testing.T) {
 	// Found by the property below: with medians of the first, middle and
 	// last entries, the least of 71 descending keys took 359 entries
 	// partitioned, past the budget of 5·71.
-	es := make([]buildEntry, 71)
-	for i := range es {
-		es[i] = buildEntry{centre: [3]float64{float64(-i)}, seg: int32(i)}
-	}
+	es := keyed(71, func(i int) float64 { return float64(-i) })
 	if w := selectNth(es, 0, 0); w > 2*len(es) {
 		t.Errorf("the least of 71 descending keys: partitioned %d entries, want at most 2·n = %d", w, 2*len(es))
 	}
@@ -236,25 +233,32 @@ func TestPivotNinther(t *testing.T) {
 		}
 		hi := lo + n
 		key := func(i int) float64 { return es[i].centre[1] }
-		med := func(a, b, c int) int { // the index holding the middle key (keys drawn distinct or tied by seg)
-			x := []int{a, b, c}
-			for i := 1; i < 3; i++ {
-				for j := i; j > 0 && es[x[j]].less(&es[x[j-1]], 1); j-- {
-					x[j], x[j-1] = x[j-1], x[j]
-				}
-			}
-			return x[1]
-		}
-		m := lo + n/2
-		want := med(lo+n/4, m, hi-1-n/4)
-		if n >= 128 {
-			s := n / 8
-			want = med(med(lo, lo+s, lo+2*s), med(m-s, m, m+s), med(hi-1-2*s, hi-1-s, hi-1))
-		}
+		want := documentedPivot(es, lo, hi, 1)
 		if got := pivotNinther(es, lo, hi, 1); got != want {
 			t.Fatalf("pivotNinther of %d entries from %d: index %d (key %g), want %d (key %g)", n, lo, got, key(got), want, key(want))
 		}
 	})
+}
+
+// documentedPivot returns the pivot pivotNinther's doc comment names for
+// es[lo:hi], worked out here: the entry holding the middle key of three,
+// by a sort of the three indices.
+func documentedPivot(es []buildEntry, lo, hi, axis int) int {
+	med := func(a, b, c int) int {
+		x := []int{a, b, c}
+		for i := 1; i < 3; i++ {
+			for j := i; j > 0 && es[x[j]].less(&es[x[j-1]], axis); j-- {
+				x[j], x[j-1] = x[j-1], x[j]
+			}
+		}
+		return x[1]
+	}
+	n, m := hi-lo, lo+(hi-lo)/2
+	if n < 128 {
+		return med(lo+n/4, m, hi-1-n/4)
+	}
+	s := n / 8
+	return med(med(lo, lo+s, lo+2*s), med(m-s, m, m+s), med(hi-1-2*s, hi-1-s, hi-1))
 }
 
 // TestTieOverflowOpensLittle: a road driven ten times over the same
