@@ -109,8 +109,26 @@ func (r *Route) alongAtS(t float64, hint *int) float64 {
 // heading changes by at least minAngleDeg degrees, measured the short way round (so a change from
 // 350° to 10° is 20°, and a U-turn is 180°). A threshold ≤ 0 marks every interior vertex; NaN marks
 // none.
-// The turn at each vertex is measured once, when the route is made.
+// The turn at each vertex is measured once, when the route is made, and the route keeps the list of
+// the last threshold asked for: a server runs one timeline after another on a route with one rule
+// set, and finding the turns walks every vertex. The slice is shared: it must not be modified.
 func (r *Route) Turns(minAngleDeg float64) []float64 {
+	if c := r.turns.Load(); c != nil && math.Float64bits(c.minAngleDeg) == math.Float64bits(minAngleDeg) {
+		return c.at
+	}
+	at := r.findTurns(minAngleDeg)
+	r.turns.Store(&turnList{minAngleDeg: minAngleDeg, at: at})
+	return at
+}
+
+// turnList is the answer of Turns for one threshold.
+type turnList struct {
+	minAngleDeg float64
+	at          []float64
+}
+
+// findTurns returns Turns(minAngleDeg), found afresh.
+func (r *Route) findTurns(minAngleDeg float64) []float64 {
 	n := 0
 	for k := 1; k < len(r.segs); k++ {
 		if r.segs[k].turnInDeg >= minAngleDeg {

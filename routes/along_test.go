@@ -5,6 +5,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"slices"
+	"sync"
 	"testing"
 
 	"github.com/paulmach/orb"
@@ -276,6 +277,42 @@ func TestTurnsAtThreshold(t *testing.T) {
 		if got := r.Turns(c.minDeg); !slices.Equal(got, c.want) {
 			t.Errorf("Turns(%v) = %v, want %v (a turn of exactly the threshold counts)", c.minDeg, got, c.want)
 		}
+	}
+}
+
+// TestTurnsKeptForTheLastThreshold: a route keeps the turns of the last
+// threshold asked for, so that a timeline after the first on one route
+// does not walk its vertices again; goroutines asking for two thresholds
+// at once (the kept list changing under them) each get their own
+// threshold's turns.
+func TestTurnsKeptForTheLastThreshold(t *testing.T) {
+	pts := []orb.Point{{0, 0}, {0.01, 0}, {0.01, 0.01}, {0.02, 0.01}, {0, 0.01}}
+	r, err := New(pts, []float64{10})
+	if err != nil {
+		t.Fatalf("New(%v): %v", pts, err)
+	}
+	if a, b := r.Turns(90), r.Turns(90); &a[0] != &b[0] {
+		t.Errorf("Turns(90) twice: two lists, want the kept one")
+	}
+	v := func(i int) float64 { return r.Segment(i).StartM }
+	want := map[float64][]float64{90: {v(1), v(2), v(3)}, 180: {v(3)}}
+	var wg sync.WaitGroup
+	errs := make(chan string, 8)
+	for g := range 8 {
+		wg.Go(func() {
+			for k := range 500 {
+				th := []float64{90, 180}[(g+k)%2]
+				if got := r.Turns(th); !slices.Equal(got, want[th]) {
+					errs <- fmt.Sprintf("Turns(%v) = %v, want %v", th, got, want[th])
+					return
+				}
+			}
+		})
+	}
+	wg.Wait()
+	close(errs)
+	for e := range errs {
+		t.Error(e)
 	}
 }
 

@@ -3,6 +3,7 @@ package routes
 import (
 	"fmt"
 	"math"
+	"sync/atomic"
 
 	"github.com/golang/geo/r3"
 	"github.com/golang/geo/s2"
@@ -49,6 +50,8 @@ type Route struct {
 	tree   []node    // the spatial index's internal nodes
 	root   int32     // the root's code (see node)
 	items  []item    // the segments' arcs in the index's leaf order
+	// turns is the answer of Turns for the last threshold asked for.
+	turns atomic.Pointer[turnList]
 }
 
 // unitVec returns the unit vector of p ([lon, lat] degrees) on the sphere that treats geodetic

@@ -16,7 +16,7 @@ import (
 
 // windingRoad is a road of n vertices about 30 m apart, turning a little at
 // each, at 25 m/s, drawn from rng.
-func windingRoad(b *testing.B, rng *rand.Rand, n int) *routes.Route {
+func windingRoad(b testing.TB, rng *rand.Rand, n int) *routes.Route {
 	pts := make([]orb.Point, n)
 	lat, lon, dir := 44.93, -31.17, 0.5
 	for i := range pts {
@@ -34,7 +34,7 @@ func windingRoad(b *testing.B, rng *rand.Rand, n int) *routes.Route {
 
 // benchDrive is a winding 500-vertex road of about 15 km with 200 markers
 // within 300 m of it, and a three-band rule set.
-func benchDrive(b *testing.B) (timeline.Drive, []timeline.Marker) {
+func benchDrive(b testing.TB) (timeline.Drive, []timeline.Marker) {
 	rng := rand.New(rand.NewPCG(3, 5))
 	r := windingRoad(b, rng, 500)
 	ms := make([]timeline.Marker, 200)

@@ -36,7 +36,7 @@ func (s *naiveSeer) Entered() []int32 { return s.entered }
 // prepared in full and every marker projected at every tick. It is the
 // test oracle of the tracker and the baseline of its benchmark.
 func ComputeNaive(d *Drive, ms []Marker) ([]Result, error) {
-	r, err := newRun(d, ms)
+	r, err := newRun(d, ms, new(scratch))
 	if err != nil {
 		return nil, err
 	}
@@ -77,7 +77,7 @@ func (s *checkedSeer) See(v *viewport.View) {
 // finds exactly the markers ProjectMercator puts in view, each once. It
 // returns the first tick where it does not and the marker, or −1.
 func ComputeChecked(d *Drive, ms []Marker) (out []Result, badTick, badMarker int, err error) {
-	r, err := newRun(d, ms)
+	r, err := newRun(d, ms, new(scratch))
 	if err != nil {
 		return nil, -1, -1, err
 	}
@@ -85,4 +85,25 @@ func ComputeChecked(d *Drive, ms []Marker) (out []Result, badTick, badMarker int
 	r.seen = s
 	out, err = r.run()
 	return out, s.badTick, s.badAt, err
+}
+
+// Best returns the markers of ws (indices into ms) that k free slots go
+// to, in the order a tick gives them out.
+func Best(ms []Marker, ws []int, k int) []int {
+	r := &driveRun{ms: ms}
+	return r.best(append([]int(nil), ws...), k)
+}
+
+// ComputeAfter runs Compute in the scratch memory of a run before it: one
+// of drive d0 on markers ms0, which may have failed.
+func ComputeAfter(d0 *Drive, ms0 []Marker, d *Drive, ms []Marker) ([]Result, error) {
+	sc := new(scratch)
+	if r0, err := newRun(d0, ms0, sc); err == nil {
+		r0.run()
+	}
+	r, err := newRun(d, ms, sc)
+	if err != nil {
+		return nil, err
+	}
+	return r.run()
 }

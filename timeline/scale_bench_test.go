@@ -64,6 +64,11 @@ func BenchmarkScaleRoute(b *testing.B) {
 }
 
 func BenchmarkScaleHorizonTick(b *testing.B) {
+	// One tick after t = 0: the fixed cost of a request (checking it, the
+	// markers' Mercator points, every marker tested at the first view).
+	d, ms := scaleDrive(b, 5000, 200)
+	d.HorizonS, d.TickS, d.BucketEdgesS = 0.25, 0.25, [2]float64{0.1, 0.2}
+	b.Run("horizon=0.25s/tick=0.25s", func(b *testing.B) { runTimeline(b, &d, ms) })
 	for _, h := range []float64{120, 600} {
 		for _, tick := range []float64{0.25, 0.1} {
 			d, ms := scaleDrive(b, 5000, 200)

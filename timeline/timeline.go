@@ -5,6 +5,7 @@ import (
 	"math"
 	"slices"
 	"strconv"
+	"sync"
 
 	"github.com/paulmach/orb"
 
@@ -181,12 +182,32 @@ type Result struct {
 // pitch of the rules fed by the current speed and the distance to the next
 // turn. Memory grows with markers + ticks, not their product.
 func Compute(d *Drive, ms []Marker) ([]Result, error) {
-	r, err := newRun(d, ms)
+	sc := scratchPool.Get().(*scratch)
+	defer scratchPool.Put(sc)
+	r, err := newRun(d, ms, sc)
 	if err != nil {
 		return nil, err
 	}
 	return r.run()
 }
+
+// scratch is the memory of a run that the next run can reuse: all of it
+// but the results. A server computes one timeline after another, and
+// allocating this afresh each time cost a fifth of a 200-marker timeline,
+// most of it in the garbage collector.
+type scratch struct {
+	merc    []viewport.Mercator
+	ids     map[string]struct{}
+	idsFor  int // the most ids the map has held
+	tracker viewport.Tracker
+	isIn    []bool
+	waiting []int
+	shown   []int
+	views   [2]viewport.View
+}
+
+// scratchPool holds the scratch of finished runs.
+var scratchPool = sync.Pool{New: func() any { return new(scratch) }}
 
 // MaxMarkerTicks is the most markers × ticks one timeline computes: about
 // 10 s of work on one core when every marker must be tested at every tick
@@ -195,8 +216,9 @@ func Compute(d *Drive, ms []Marker) ([]Result, error) {
 // the reference.
 const MaxMarkerTicks = 1e8
 
-// newRun validates d and ms and returns the run of the drive.
-func newRun(d *Drive, ms []Marker) (*driveRun, error) {
+// newRun validates d and ms and returns the run of the drive, in the
+// memory of sc.
+func newRun(d *Drive, ms []Marker, sc *scratch) (*driveRun, error) {
 	if err := d.Validate(); err != nil {
 		return nil, err
 	}
@@ -204,16 +226,18 @@ func newRun(d *Drive, ms []Marker) (*driveRun, error) {
 		return nil, &spec.FieldError{Field: "markers", Value: strconv.Itoa(len(ms)) + " markers × " + strconv.Itoa(d.Ticks()+1) + " ticks",
 			Reason: "more than " + spec.FormatNumber(MaxMarkerTicks) + " marker-ticks, the most one timeline computes (SPEC §5)"}
 	}
-	merc, err := markerPoints(ms)
+	merc, err := markerPoints(ms, sc)
 	if err != nil {
 		return nil, err
 	}
-	return newDriveRun(d, ms, merc), nil
+	return newDriveRun(d, ms, merc, sc), nil
 }
 
-// markerPoints validates ms and returns their Mercator points.
-func markerPoints(ms []Marker) ([]viewport.Mercator, error) {
-	merc := make([]viewport.Mercator, len(ms))
+// markerPoints validates ms and returns their Mercator points, in sc's
+// memory.
+func markerPoints(ms []Marker, sc *scratch) ([]viewport.Mercator, error) {
+	merc := resized(sc.merc, len(ms))
+	sc.merc = merc
 	for i, m := range ms {
 		// The path is formatted only when the check fails.
 		if spec.CheckLatLon("", m.Point[1], m.Point[0]) != nil {
@@ -224,19 +248,32 @@ func markerPoints(ms []Marker) ([]viewport.Mercator, error) {
 		}
 		merc[i] = viewport.ToMercator(m.Point)
 	}
-	return merc, CheckIDs(ms, "markers")
+	// The map of ids is reused, unless a much larger run left it with
+	// room that clearing would walk through for nothing.
+	if sc.ids == nil || sc.idsFor > 4*len(ms)+64 {
+		sc.ids, sc.idsFor = make(map[string]struct{}, len(ms)), 0
+	}
+	sc.idsFor = max(sc.idsFor, len(ms))
+	defer clear(sc.ids) // holds no ids between runs
+	return merc, checkIDsIn(sc.ids, ms, "markers")
 }
 
 // CheckIDs returns nil when the markers' ids are unique, or the error
 // naming the second of the first two alike (path[i].id).
 func CheckIDs(ms []Marker, path string) error {
-	seen := make(map[string]int, len(ms))
+	return checkIDsIn(make(map[string]struct{}, len(ms)), ms, path)
+}
+
+// checkIDsIn is CheckIDs with an empty map to fill.
+// Each id is hashed once: it is put in the set, and a set that did not
+// grow held it already (the first holder is then looked for).
+func checkIDsIn(seen map[string]struct{}, ms []Marker, path string) error {
 	for i, m := range ms {
-		if j, dup := seen[m.ID]; dup {
+		if seen[m.ID] = struct{}{}; len(seen) == i {
+			j := slices.IndexFunc(ms, func(o Marker) bool { return o.ID == m.ID })
 			return &spec.FieldError{Field: spec.Index(path, i) + ".id", Value: strconv.Quote(m.ID),
 				Reason: "duplicate id (first at " + spec.Index(path, j) + ")"}
 		}
-		seen[m.ID] = i
 	}
 	return nil
 }
@@ -258,6 +295,12 @@ type driveRun struct {
 
 	// seen keeps which markers are in view from tick to tick.
 	seen seer
+	// views are the two views placed at alternate ticks, so that the one
+	// before stays at hand without a copy. Each one's first placing is
+	// with Place, which keeps nothing from a view left by another run
+	// unless its device, pitch, zoom or heading are the same to the bit
+	// (and then the numbers are the same).
+	views *[2]viewport.View
 	// turnMin is the smallest turn margin so far (rules.TurnMarginDeg).
 	turnMin float64
 }
@@ -271,16 +314,33 @@ type seer interface {
 	Entered() []int32
 }
 
-func newDriveRun(d *Drive, ms []Marker, merc []viewport.Mercator) *driveRun {
+// newDriveRun returns the run of d for markers ms at Mercator points
+// merc, in the memory of sc.
+func newDriveRun(d *Drive, ms []Marker, merc []viewport.Mercator, sc *scratch) *driveRun {
+	sc.tracker.Reset(merc)
+	sc.isIn = resized(sc.isIn, len(ms))
+	clear(sc.isIn)
+	sc.waiting = resized(sc.waiting, len(ms))[:0]
+	sc.shown = resized(sc.shown, min(d.Cap, len(ms)))[:0]
 	return &driveRun{d: d, ms: ms, merc: merc,
 		turns:   d.Route.Turns(d.Rules.Turn.MinAngleDeg),
 		out:     make([]Result, len(merc)),
-		shown:   make([]int, 0, min(d.Cap, len(ms))),
-		isIn:    make([]bool, len(ms)),
-		waiting: make([]int, 0, len(ms)),
-		seen:    viewport.NewTracker(merc),
+		shown:   sc.shown,
+		isIn:    sc.isIn,
+		waiting: sc.waiting,
+		seen:    &sc.tracker,
+		views:   &sc.views,
 		turnMin: math.Inf(1),
 	}
+}
+
+// resized returns s with length n, in s's own array when its capacity
+// allows.
+func resized[T any](s []T, n int) []T {
+	if cap(s) < n {
+		return make([]T, n)
+	}
+	return s[:n]
 }
 
 func (r *driveRun) run() ([]Result, error) {
@@ -290,9 +350,7 @@ func (r *driveRun) run() ([]Result, error) {
 	lengthM := rt.LengthM()
 	var st rules.State
 	var heading float64
-	// Two views, placed at alternate ticks, so that the one before stays
-	// at hand without a copy.
-	var views [2]viewport.View
+	views := r.views
 	cam := viewport.Camera{Device: d.Device}
 	walk := rt.Walk(d.StartAlongM)
 	var pause pauses
@@ -386,23 +444,7 @@ func (r *driveRun) tick(k int, t float64, v *viewport.View) {
 	for _, i := range r.shown {
 		r.isIn[i] = false
 	}
-	if free == 1 { // the common case: one slot, the best waiting marker
-		best := r.waiting[0]
-		for _, i := range r.waiting[1:] {
-			if r.ahead(i, best) {
-				best = i
-			}
-		}
-		r.waiting = append(r.waiting[:0], best)
-	} else {
-		slices.SortFunc(r.waiting, func(a, b int) int {
-			if r.ahead(a, b) {
-				return -1
-			}
-			return 1 // ids are unique: a ≠ b ranks after
-		})
-		r.waiting = r.waiting[:min(free, len(r.waiting))]
-	}
+	r.waiting = r.best(r.waiting, free)
 	for _, best := range r.waiting {
 		r.shown = append(r.shown, best)
 		o := &r.out[best]
@@ -419,6 +461,42 @@ func (r *driveRun) tick(k int, t float64, v *viewport.View) {
 		}
 	}
 	r.countShown()
+}
+
+// best returns the first k of ws in rank order (see ahead), or all of them
+// when there are no more, reordering ws. A few slots are free at a time
+// (one, mostly), so the best are picked out in one pass over ws rather
+// than by sorting it all; a larger k is sorted.
+func (r *driveRun) best(ws []int, k int) []int {
+	if k > 16 || k >= len(ws) {
+		slices.SortFunc(ws, func(a, b int) int {
+			if r.ahead(a, b) {
+				return -1
+			}
+			return 1 // ids are unique: a ≠ b ranks after
+		})
+		return ws[:min(k, len(ws))]
+	}
+	// ws[:k] in rank order, then each later marker that ranks before the
+	// last of them takes its place among them.
+	for j := 1; j < k; j++ {
+		r.insert(ws, j, ws[j])
+	}
+	for _, i := range ws[k:] {
+		if r.ahead(i, ws[k-1]) {
+			r.insert(ws, k-1, i)
+		}
+	}
+	return ws[:k]
+}
+
+// insert puts marker i into ws[:j+1], whose first j are in rank order,
+// over ws[j].
+func (r *driveRun) insert(ws []int, j, i int) {
+	for ; j > 0 && r.ahead(i, ws[j-1]); j-- {
+		ws[j] = ws[j-1]
+	}
+	ws[j] = i
 }
 
 // countShown counts a tick for every shown marker.

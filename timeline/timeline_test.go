@@ -180,6 +180,10 @@ func TestTimelineValidation(t *testing.T) {
 	if _, err := timeline.Compute(&d, []timeline.Marker{{ID: "x"}, {ID: "x"}}); err == nil || !contains(err.Error(), `markers[1].id`) {
 		t.Errorf("duplicate ids: %v", err)
 	}
+	ms := []timeline.Marker{{ID: "a"}, {ID: "x"}, {ID: "b"}, {ID: "x"}, {ID: "a"}}
+	if _, err := timeline.Compute(&d, ms); err == nil || err.Error() != `markers[3].id = "x": duplicate id (first at markers[1])` {
+		t.Errorf("duplicate ids apart: %v", err)
+	}
 }
 
 func contains(s, sub string) bool {

@@ -59,21 +59,43 @@ type Tracker struct {
 // NewTracker returns a tracker of points, none of them in view yet. It
 // keeps the slice.
 func NewTracker(points []Mercator) *Tracker {
+	r := new(Tracker)
+	r.Reset(points)
+	return r
+}
+
+// Reset makes r a tracker of points, none of them in view yet, as
+// NewTracker does, in the memory r already has where it is large enough:
+// a server that runs one drive timeline after another reuses one tracker.
+// It keeps the slice.
+func (r *Tracker) Reset(points []Mercator) {
 	n := len(points)
-	r := &Tracker{merc: points,
-		in:        make([]bool, n),
-		visible:   make([]int32, 0, n),
-		visPos:    make([]int32, n),
-		entered:   make([]int32, 0, n),
-		safeUntil: make([]float64, n),
-		due:       make([]int32, n),
-		near:      make([]int32, n),
-		see:       (*Tracker).seeIndexed,
+	see := r.see
+	if see == nil {
+		see = (*Tracker).seeIndexed
 	}
+	*r = Tracker{merc: points, see: see,
+		in:        resized(r.in, n),
+		visible:   resized(r.visible, n)[:0],
+		visPos:    resized(r.visPos, n),
+		entered:   resized(r.entered, n)[:0],
+		safeUntil: resized(r.safeUntil, n),
+		due:       resized(r.due, n),
+		near:      resized(r.near, n),
+	}
+	clear(r.in)
 	for i := range r.visPos {
 		r.visPos[i] = -1
 	}
-	return r
+}
+
+// resized returns s with length n, in s's own array when its capacity
+// allows (the elements are then s's old ones).
+func resized[T any](s []T, n int) []T {
+	if cap(s) < n {
+		return make([]T, n)
+	}
+	return s[:n]
 }
 
 // See brings the answers up to view v, the next view of the moving one.
