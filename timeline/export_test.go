@@ -1,6 +1,11 @@
 package timeline
 
-import "github.com/viewspec/viewspec/viewport"
+import (
+	"reflect"
+	"strconv"
+
+	"github.com/viewspec/viewspec/viewport"
+)
 
 // naiveSeer finds the markers in view by preparing each view's camera in
 // full and projecting every marker from latitude and longitude.
@@ -106,4 +111,30 @@ func ComputeAfter(d0 *Drive, ms0 []Marker, d *Drive, ms []Marker) ([]Result, err
 		return nil, err
 	}
 	return r.run()
+}
+
+// IDSetReused reports whether a run on n markers reuses the set of ids
+// of a run on n0 markers before it in the same scratch memory.
+func IDSetReused(n0, n int) bool {
+	sc := new(scratch)
+	ms := make([]Marker, max(n0, n))
+	for i := range ms {
+		ms[i].ID = strconv.Itoa(i)
+	}
+	if _, err := markerPoints(ms[:n0], sc); err != nil {
+		panic(err)
+	}
+	before := reflect.ValueOf(sc.ids).UnsafePointer()
+	if _, err := markerPoints(ms[:n], sc); err != nil {
+		panic(err)
+	}
+	return reflect.ValueOf(sc.ids).UnsafePointer() == before
+}
+
+// ResizedInPlace reports whether resized gives a slice of capacity
+// capacity length n in the slice's own array.
+func ResizedInPlace(capacity, n int) bool {
+	s := make([]int, 1, capacity)
+	r := resized(s, n)
+	return len(r) == n && &r[0] == &s[0]
 }

@@ -2,8 +2,10 @@ package timeline_test
 
 import (
 	"cmp"
+	"fmt"
 	"slices"
 	"strings"
+	"sync"
 	"testing"
 
 	"pgregory.net/rapid"
@@ -72,5 +74,72 @@ func TestScratchReusedGivesSameAnswers(t *testing.T) {
 		if !slices.Equal(got, want) {
 			t.Errorf("after a run on %s: the results differ from a fresh run's", before.desc)
 		}
+	}
+}
+
+// A run reuses the set of ids of the run before it in the same memory,
+// and makes one afresh after a run on more than four times its markers
+// and 64 more, whose room clearing would walk through for nothing.
+func TestIDSetReusedUnlessMuchLarger(t *testing.T) {
+	for _, c := range []struct {
+		n0, n int
+		want  bool
+	}{
+		{200, 200, true},
+		{200, 34, true},  // 4·34 + 64 = 200: not more
+		{200, 33, false}, // 196
+		{10, 1000, true},
+		{0, 0, true},
+	} {
+		if got := timeline.IDSetReused(c.n0, c.n); got != c.want {
+			t.Errorf("%d markers after %d: set reused %v, want %v", c.n, c.n0, got, c.want)
+		}
+	}
+}
+
+// Scratch slices are resized in their own arrays when those are large
+// enough, up to exactly their capacity.
+func TestResizedInPlace(t *testing.T) {
+	for _, c := range []struct {
+		capacity, n int
+		want        bool
+	}{{8, 1, true}, {8, 8, true}, {8, 9, false}} {
+		if got := timeline.ResizedInPlace(c.capacity, c.n); got != c.want {
+			t.Errorf("capacity %d, length %d: in place %v, want %v", c.capacity, c.n, got, c.want)
+		}
+	}
+}
+
+// Timelines computed at once in several goroutines (each taking memory
+// that others have left) give the answers of one computed alone.
+func TestComputeAtOnce(t *testing.T) {
+	d1, ms1 := benchDrive(t)
+	d2, ms2 := benchDrive(t)
+	d2.StartAlongM, ms2 = 4000, ms2[50:120]
+	want1, err1 := timeline.Compute(&d1, ms1)
+	want2, err2 := timeline.Compute(&d2, ms2)
+	if err1 != nil || err2 != nil {
+		t.Fatal(err1, err2)
+	}
+	var wg sync.WaitGroup
+	bad := make(chan string, 4)
+	for g := range 4 {
+		wg.Go(func() {
+			for k := range 6 {
+				d, ms, want := &d1, ms1, want1
+				if (g+k)%2 == 1 {
+					d, ms, want = &d2, ms2, want2
+				}
+				if got, err := timeline.Compute(d, ms); err != nil || !slices.Equal(got, want) {
+					bad <- fmt.Sprintf("goroutine %d, run %d: the results differ from one computed alone (%v)", g, k, err)
+					return
+				}
+			}
+		})
+	}
+	wg.Wait()
+	close(bad)
+	for b := range bad {
+		t.Error(b)
 	}
 }

@@ -42,8 +42,9 @@ type Drive struct {
 	Stops []Stop
 
 	// OnTick, when set, is called at every tick with the tick's index, its
-	// view and the indices of the markers shown (valid during the call
-	// only), for pictures and per-tick output.
+	// view and the indices of the markers shown, for pictures and per-tick
+	// output. The view and the indices are valid during the call only (the
+	// memory is the run's, and then the next run's): copy what is kept.
 	OnTick func(tick int, v *viewport.View, shown []int)
 	// OnBand, when set, is called at every tick with the rule set's speed
 	// band at that tick (an index into Rules.Bands), for reports of how
@@ -180,7 +181,8 @@ type Result struct {
 // follows the route position at t = k·tick, the heading turned toward the
 // current segment's bearing by at most max_turn_rate·tick, and the zoom and
 // pitch of the rules fed by the current speed and the distance to the next
-// turn. Memory grows with markers + ticks, not their product.
+// turn. Memory grows with markers + ticks, not their product, and all of it
+// but the results is kept for the next call (calls may run at once).
 func Compute(d *Drive, ms []Marker) ([]Result, error) {
 	sc := scratchPool.Get().(*scratch)
 	defer scratchPool.Put(sc)

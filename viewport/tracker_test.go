@@ -128,3 +128,56 @@ func TestTrackerExactWhileTurning(t *testing.T) {
 		})
 	})
 }
+
+// A tracker as NewTracker makes it, and the same tracker Reset onto fewer
+// points and then more (its memory reused, then grown), follows a drive
+// that turns now and then with ProjectMercator's answers at every step,
+// each in-view point once in its list.
+func TestTrackerPlainAndReset(t *testing.T) {
+	c := viewport.Camera{LatDeg: 44.93, LonDeg: -31.17, HeadingDeg: 20, PitchDeg: 55, Zoom: 16,
+		Device: viewport.NewDevice(390, 844, 45)}
+	start := viewport.ToMercator(c.User())
+	grid := func(n int, stepM float64) []viewport.Mercator {
+		pts := make([]viewport.Mercator, 0, n*n)
+		for i := range n {
+			for j := range n {
+				pts = append(pts, viewport.Mercator{X: start.X + (float64(i)-float64(n)/2)*stepM,
+					Y: start.Y + (float64(j)-float64(n)/4)*stepM})
+			}
+		}
+		return pts
+	}
+	tr := viewport.NewTracker(grid(12, 150))
+	for _, pts := range [][]viewport.Mercator{grid(12, 150), grid(5, 300), grid(20, 90)} {
+		tr.Reset(pts)
+		cam := c
+		var v viewport.View
+		for step := range 40 {
+			if step > 0 {
+				u := viewport.ToMercator(cam.User())
+				h := cam.HeadingDeg * math.Pi / 180
+				u.X, u.Y = u.X+12*math.Sin(h), u.Y+12*math.Cos(h)
+				ll := u.LatLon()
+				cam.LatDeg, cam.LonDeg = ll[1], ll[0]
+				if step%7 == 0 {
+					cam.HeadingDeg = math.Mod(cam.HeadingDeg+9, 360)
+				}
+			}
+			if err := v.Place(cam); err != nil {
+				t.Fatal(err)
+			}
+			tr.See(&v)
+			count := make([]int, len(pts))
+			for _, i := range tr.Visible() {
+				count[i]++
+			}
+			for i, m := range pts {
+				want := v.ProjectMercator(m).InView()
+				if tr.In(i) != want || count[i] != map[bool]int{false: 0, true: 1}[want] {
+					t.Fatalf("%d points, step %d, point %d: in view %v (listed %d times), want %v",
+						len(pts), step, i, tr.In(i), count[i], want)
+				}
+			}
+		}
+	}
+}
