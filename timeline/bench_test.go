@@ -15,13 +15,18 @@ import (
 )
 
 // windingRoad is a road of n vertices about 30 m apart, turning a little at
-// each, at 25 m/s, drawn from rng.
+// each (up to ±0.15 rad), at 25 m/s, drawn from rng.
 func windingRoad(b testing.TB, rng *rand.Rand, n int) *routes.Route {
+	return turningRoad(b, rng, n, 0.3)
+}
+
+// turningRoad is windingRoad with turns of up to ±turnRad/2 at each vertex.
+func turningRoad(b testing.TB, rng *rand.Rand, n int, turnRad float64) *routes.Route {
 	pts := make([]orb.Point, n)
 	lat, lon, dir := 44.93, -31.17, 0.5
 	for i := range pts {
 		pts[i] = orb.Point{lon, lat}
-		dir += (rng.Float64() - 0.5) * 0.3
+		dir += (rng.Float64() - 0.5) * turnRad
 		lat += 0.00027 * math.Cos(dir)
 		lon += 0.00027 * math.Sin(dir) / math.Cos(lat*math.Pi/180)
 	}

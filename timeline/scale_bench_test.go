@@ -12,13 +12,15 @@ import (
 )
 
 // How the timeline grows, one dimension at a time from the 200-marker,
-// 500-vertex, 120 s at 0.25 s drive of BenchmarkTimeline:
+// 500-vertex, 120 s at 0.25 s drive of BenchmarkTimeline (markers, route
+// size, horizon and tick, how much the road turns), and the whole request
+// a server makes per user (snap, metrics for every marker, the timeline)
+// on a prepared route:
 //
 //	go test ./timeline -run '^$' -bench 'Scale|WholeRequest' -cpu 1
 //
-// and the whole request a server makes per user (snap, metrics for every
-// marker, the timeline) on a prepared route. Targets: the whole request
-// ≤ 0.5 ms and the timeline alone ≤ 0.25 ms at 200 markers, per core.
+// Targets: the whole request ≤ 0.5 ms and the timeline alone ≤ 0.25 ms at
+// 200 markers, per core.
 
 // scaleDrive is benchDrive's road and rules with n vertices (about 30 m
 // apart) and m markers within 300 m of it.
@@ -75,6 +77,23 @@ func BenchmarkScaleHorizonTick(b *testing.B) {
 			d.HorizonS, d.TickS = h, tick
 			b.Run(fmt.Sprintf("horizon=%gs/tick=%gs", h, tick), func(b *testing.B) { runTimeline(b, &d, ms) })
 		}
+	}
+}
+
+// BenchmarkScaleTurning: BenchmarkTimeline's drive on roads that turn
+// less at each vertex (0 is straight): a turn of the map moves the far
+// corners of a footprint that reaches 11 km by up to a kilometre, and the
+// markers near its edges are tested again.
+func BenchmarkScaleTurning(b *testing.B) {
+	for _, turn := range []float64{0.3, 0.1, 0} {
+		d, ms := benchDrive(b)
+		rng := rand.New(rand.NewPCG(3, 5))
+		d.Route = turningRoad(b, rng, 500, turn)
+		for i := range ms {
+			p := d.Route.PointAt(rng.Float64() * d.Route.LengthM())
+			ms[i].Point = orb.Point{p[0] + (rng.Float64()-0.5)*0.008, p[1] + (rng.Float64()-0.5)*0.006}
+		}
+		b.Run(fmt.Sprintf("turn=%grad", turn), func(b *testing.B) { runTimeline(b, &d, ms) })
 	}
 }
 
