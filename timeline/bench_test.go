@@ -37,6 +37,13 @@ func turningRoad(b testing.TB, rng *rand.Rand, n int, turnRad float64) *routes.R
 	return r
 }
 
+// pointNear returns a point within about 300 m of r, beside a place drawn
+// from rng within alongM of its start.
+func pointNear(rng *rand.Rand, r *routes.Route, alongM float64) orb.Point {
+	p := r.PointAt(rng.Float64() * alongM)
+	return orb.Point{p[0] + (rng.Float64()-0.5)*0.008, p[1] + (rng.Float64()-0.5)*0.006}
+}
+
 // benchDrive is a winding 500-vertex road of about 15 km with 200 markers
 // within 300 m of it, and a three-band rule set.
 func benchDrive(b testing.TB) (timeline.Drive, []timeline.Marker) {
@@ -44,10 +51,8 @@ func benchDrive(b testing.TB) (timeline.Drive, []timeline.Marker) {
 	r := windingRoad(b, rng, 500)
 	ms := make([]timeline.Marker, 200)
 	for i := range ms {
-		p := r.PointAt(rng.Float64() * r.LengthM())
 		ms[i] = timeline.Marker{ID: fmt.Sprintf("shop-%03d", i),
-			Point:    orb.Point{p[0] + (rng.Float64()-0.5)*0.008, p[1] + (rng.Float64()-0.5)*0.006},
-			Priority: float64(rng.IntN(4))}
+			Point: pointNear(rng, r, r.LengthM()), Priority: float64(rng.IntN(4))}
 	}
 	rs := &rules.Set{
 		Bands: []rules.Band{

@@ -113,28 +113,24 @@ func ComputeAfter(d0 *Drive, ms0 []Marker, d *Drive, ms []Marker) ([]Result, err
 	return r.run()
 }
 
-// IDSetReused reports whether a run on n markers reuses the set of ids
-// of a run on n0 markers before it in the same scratch memory.
-func IDSetReused(n0, n int) bool {
+// Reused reports whether a run on n markers reuses the array of Mercator
+// points and the set of ids of a run on n0 markers before it in the same
+// scratch memory.
+func Reused(n0, n int) (points, ids bool) {
 	sc := new(scratch)
 	ms := make([]Marker, max(n0, n))
 	for i := range ms {
 		ms[i].ID = strconv.Itoa(i)
 	}
-	if _, err := markerPoints(ms[:n0], sc); err != nil {
+	merc0, err := markerPoints(ms[:n0], sc)
+	if err != nil {
 		panic(err)
 	}
-	before := reflect.ValueOf(sc.ids).UnsafePointer()
-	if _, err := markerPoints(ms[:n], sc); err != nil {
+	set0 := reflect.ValueOf(sc.ids).UnsafePointer()
+	merc, err := markerPoints(ms[:n], sc)
+	if err != nil {
 		panic(err)
 	}
-	return reflect.ValueOf(sc.ids).UnsafePointer() == before
-}
-
-// ResizedInPlace reports whether resized gives a slice of capacity
-// capacity length n in the slice's own array.
-func ResizedInPlace(capacity, n int) bool {
-	s := make([]int, 1, capacity)
-	r := resized(s, n)
-	return len(r) == n && &r[0] == &s[0]
+	return n > 0 && cap(merc0) > 0 && &merc[:1][0] == &merc0[:1][0],
+		reflect.ValueOf(sc.ids).UnsafePointer() == set0
 }

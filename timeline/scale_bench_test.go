@@ -33,10 +33,8 @@ func scaleDrive(b *testing.B, nVertices, nMarkers int) (timeline.Drive, []timeli
 	reach := min(r.LengthM(), 4000)
 	ms := make([]timeline.Marker, nMarkers)
 	for i := range ms {
-		p := r.PointAt(rng.Float64() * reach)
 		ms[i] = timeline.Marker{ID: fmt.Sprintf("shop-%04d", i),
-			Point:    orb.Point{p[0] + (rng.Float64()-0.5)*0.008, p[1] + (rng.Float64()-0.5)*0.006},
-			Priority: float64(rng.IntN(4))}
+			Point: pointNear(rng, r, reach), Priority: float64(rng.IntN(4))}
 	}
 	nd := timeline.NewDrive(r, 0, d.Device, d.Rules)
 	return nd, ms
@@ -90,8 +88,7 @@ func BenchmarkScaleTurning(b *testing.B) {
 		rng := rand.New(rand.NewPCG(3, 5))
 		d.Route = turningRoad(b, rng, 500, turn)
 		for i := range ms {
-			p := d.Route.PointAt(rng.Float64() * d.Route.LengthM())
-			ms[i].Point = orb.Point{p[0] + (rng.Float64()-0.5)*0.008, p[1] + (rng.Float64()-0.5)*0.006}
+			ms[i].Point = pointNear(rng, d.Route, d.Route.LengthM())
 		}
 		b.Run(fmt.Sprintf("turn=%grad", turn), func(b *testing.B) { runTimeline(b, &d, ms) })
 	}

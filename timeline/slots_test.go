@@ -91,21 +91,21 @@ func TestIDSetReusedUnlessMuchLarger(t *testing.T) {
 		{10, 1000, true},
 		{0, 0, true},
 	} {
-		if got := timeline.IDSetReused(c.n0, c.n); got != c.want {
+		if _, got := timeline.Reused(c.n0, c.n); got != c.want {
 			t.Errorf("%d markers after %d: set reused %v, want %v", c.n, c.n0, got, c.want)
 		}
 	}
 }
 
-// Scratch slices are resized in their own arrays when those are large
-// enough, up to exactly their capacity.
-func TestResizedInPlace(t *testing.T) {
+// A run keeps the markers' points in the array of the run before it when
+// that is large enough, up to exactly its size.
+func TestPointsReusedUpToCapacity(t *testing.T) {
 	for _, c := range []struct {
-		capacity, n int
-		want        bool
+		n0, n int
+		want  bool
 	}{{8, 1, true}, {8, 8, true}, {8, 9, false}} {
-		if got := timeline.ResizedInPlace(c.capacity, c.n); got != c.want {
-			t.Errorf("capacity %d, length %d: in place %v, want %v", c.capacity, c.n, got, c.want)
+		if got, _ := timeline.Reused(c.n0, c.n); got != c.want {
+			t.Errorf("%d markers after %d: points' array reused %v, want %v", c.n, c.n0, got, c.want)
 		}
 	}
 }

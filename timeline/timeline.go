@@ -238,7 +238,7 @@ func newRun(d *Drive, ms []Marker, sc *scratch) (*driveRun, error) {
 // markerPoints validates ms and returns their Mercator points, in sc's
 // memory.
 func markerPoints(ms []Marker, sc *scratch) ([]viewport.Mercator, error) {
-	merc := resized(sc.merc, len(ms))
+	merc := slices.Grow(sc.merc[:0], len(ms))[:len(ms)]
 	sc.merc = merc
 	for i, m := range ms {
 		// The path is formatted only when the check fails.
@@ -320,10 +320,10 @@ type seer interface {
 // merc, in the memory of sc.
 func newDriveRun(d *Drive, ms []Marker, merc []viewport.Mercator, sc *scratch) *driveRun {
 	sc.tracker.Reset(merc)
-	sc.isIn = resized(sc.isIn, len(ms))
+	sc.isIn = slices.Grow(sc.isIn[:0], len(ms))[:len(ms)]
 	clear(sc.isIn)
-	sc.waiting = resized(sc.waiting, len(ms))[:0]
-	sc.shown = resized(sc.shown, min(d.Cap, len(ms)))[:0]
+	sc.waiting = slices.Grow(sc.waiting[:0], len(ms))
+	sc.shown = slices.Grow(sc.shown[:0], min(d.Cap, len(ms)))
 	return &driveRun{d: d, ms: ms, merc: merc,
 		turns:   d.Route.Turns(d.Rules.Turn.MinAngleDeg),
 		out:     make([]Result, len(merc)),
@@ -334,15 +334,6 @@ func newDriveRun(d *Drive, ms []Marker, merc []viewport.Mercator, sc *scratch) *
 		views:   &sc.views,
 		turnMin: math.Inf(1),
 	}
-}
-
-// resized returns s with length n, in s's own array when its capacity
-// allows.
-func resized[T any](s []T, n int) []T {
-	if cap(s) < n {
-		return make([]T, n)
-	}
-	return s[:n]
 }
 
 func (r *driveRun) run() ([]Result, error) {

@@ -1,6 +1,9 @@
 package viewport
 
-import "math"
+import (
+	"math"
+	"slices"
+)
 
 // Tracker keeps which of a fixed set of Mercator points are in view of a
 // view that moves a little at a time, as a drive's does from tick to tick.
@@ -75,27 +78,18 @@ func (r *Tracker) Reset(points []Mercator) {
 		see = (*Tracker).seeIndexed
 	}
 	*r = Tracker{merc: points, see: see,
-		in:        resized(r.in, n),
-		visible:   resized(r.visible, n)[:0],
-		visPos:    resized(r.visPos, n),
-		entered:   resized(r.entered, n)[:0],
-		safeUntil: resized(r.safeUntil, n),
-		due:       resized(r.due, n),
-		near:      resized(r.near, n),
+		in:        slices.Grow(r.in[:0], n)[:n],
+		visible:   slices.Grow(r.visible[:0], n),
+		visPos:    slices.Grow(r.visPos[:0], n)[:n],
+		entered:   slices.Grow(r.entered[:0], n),
+		safeUntil: slices.Grow(r.safeUntil[:0], n)[:n],
+		due:       slices.Grow(r.due[:0], n)[:n],
+		near:      slices.Grow(r.near[:0], n)[:n],
 	}
 	clear(r.in)
 	for i := range r.visPos {
 		r.visPos[i] = -1
 	}
-}
-
-// resized returns s with length n, in s's own array when its capacity
-// allows (the elements are then s's old ones).
-func resized[T any](s []T, n int) []T {
-	if cap(s) < n {
-		return make([]T, n)
-	}
-	return s[:n]
 }
 
 // See brings the answers up to view v, the next view of the moving one.
