@@ -200,6 +200,57 @@ func TestToBox32Tight(t *testing.T) {
 	})
 }
 
+// TestAxis32AsGapStepwise: axis32 finds its half-extent with the distances
+// to the corners worked out once and the float32 steps taken by their bits;
+// it gives, to the bit, what stepping with gap and math.Nextafter32 gives
+// (the way it was first written, kept here as the reference), on corners
+// from subnormal to huge, equal, of either sign, ±0 and one infinite.
+func TestAxis32AsGapStepwise(t *testing.T) {
+	stepwise := func(l, h float64) (float32, float32) {
+		c := float32((l + h) / 2)
+		cf := float64(c)
+		holds := func(e float32) bool { return gap(l, cf, float64(e)) == 0 && gap(h, cf, float64(e)) == 0 }
+		e32 := float32(math.Max(h-cf, cf-l))
+		for e32 > 0 && holds(math.Nextafter32(e32, 0)) {
+			e32 = math.Nextafter32(e32, 0)
+		}
+		for !holds(e32) && !math.IsInf(float64(e32), 1) {
+			e32 = math.Nextafter32(e32, float32(math.Inf(1)))
+		}
+		return c, e32
+	}
+	value := rapid.OneOf(
+		rapid.Float64Range(-1, 1),
+		rapid.Float64Range(-1e-300, 1e-300),
+		rapid.Float64Range(-1e-38, 1e-38),
+		rapid.Float64Range(-1e39, 1e39),
+		rapid.SampledFrom([]float64{0, math.Copysign(0, -1), 5e-324, math.MaxFloat32, math.MaxFloat64, math.Inf(1), math.Inf(-1)}),
+	)
+	rapid.Check(t, func(t *rapid.T) {
+		l := value.Draw(t, "l")
+		var h float64
+		switch rapid.IntRange(0, 2).Draw(t, "h_kind") {
+		case 0:
+			h = l
+		case 1:
+			h = value.Draw(t, "h")
+		default:
+			h = l + rapid.Float64Range(0, 1e-3).Draw(t, "width")
+		}
+		if h < l {
+			l, h = h, l
+		}
+		if math.IsInf(l, 0) && math.IsInf(h, 0) {
+			t.Skip("both corners infinite: the centre is NaN, and no extent holds (no box has them)")
+		}
+		c, e := axis32(l, h)
+		wc, we := stepwise(l, h)
+		if math.Float32bits(c) != math.Float32bits(wc) || math.Float32bits(e) != math.Float32bits(we) {
+			t.Fatalf("axis32(%g, %g) = %g ± %g, stepping with gap gives %g ± %g", l, h, c, e, wc, we)
+		}
+	})
+}
+
 // TestArcBoxHoldsItsEnds: an arc's box holds both its ends exactly, even
 // on arcs shorter than the padding's scale (centimetres to a metre), where
 // the bulge is below the padding.

@@ -117,6 +117,7 @@ func New(points []orb.Point, speedsMps []float64) (*Route, error) {
 	prevIdx := 0
 	prevVec, _, _ := unitVec(points[0])
 	prevPrep := prepLatLon(points[0][1], points[0][0])
+	prevY := mercatorY(points[0][1]) // each vertex's Mercator y is found once
 	r.pts = append(r.pts, points[0])
 	r.preps = append(r.preps, prevPrep)
 	for j := 1; j < len(points); j++ {
@@ -130,7 +131,8 @@ func New(points []orb.Point, speedsMps []float64) (*Route, error) {
 		if len(speedsMps) > 1 {
 			speed = speedsMps[j-1]
 		}
-		sg, kind := makeSegment(prevVec, v, lengthM, speed, points[prevIdx], points[j])
+		y := mercatorY(points[j][1])
+		sg, kind := makeSegment(prevVec, v, lengthM, speed)
 		if kind == segDegenerate {
 			continue // the ends differ but no arc is resolvable between them: zero-length
 		}
@@ -145,10 +147,11 @@ func New(points []orb.Point, speedsMps []float64) (*Route, error) {
 				return nil, err
 			}
 		}
+		sg.headingDeg = mercatorHeadingDegY(points[prevIdx], points[j], prevY, y)
 		r.segs = append(r.segs, sg)
 		r.pts = append(r.pts, points[j])
 		r.preps = append(r.preps, pp)
-		prevIdx, prevVec, prevPrep = j, v, pp
+		prevIdx, prevVec, prevPrep, prevY = j, v, pp, y
 	}
 	if len(r.segs) == 0 {
 		return nil, &spec.FieldError{Field: "points", Value: fmt.Sprintf("%d given, 1 distinct", len(points)),
@@ -185,8 +188,9 @@ const (
 	segAntipodal  // the ends are within maxArcRad of antipodal
 )
 
-// makeSegment precomputes one arc.
-func makeSegment(a, b r3.Vector, lengthM, speed float64, pa, pb orb.Point) (segment, int) {
+// makeSegment precomputes one arc, all but its heading (New sets it, from each vertex's Mercator y
+// found once).
+func makeSegment(a, b r3.Vector, lengthM, speed float64) (segment, int) {
 	// PointCross is accurate also for nearly parallel and nearly opposite vectors.
 	n := s2.Point{Vector: a}.PointCross(s2.Point{Vector: b}).Vector.Normalize()
 	t := n.Cross(a).Normalize()
@@ -200,11 +204,10 @@ func makeSegment(a, b r3.Vector, lengthM, speed float64, pa, pb orb.Point) (segm
 	}
 	h := math.Hypot(cosT, sinT)
 	return segment{
-		arc:        arc{a: a, b: b, t: t, n: n, cosT: cosT / h, sinT: sinT / h},
-		theta:      theta,
-		lengthM:    lengthM,
-		speedMps:   speed,
-		headingDeg: mercatorHeadingDeg(pa, pb),
+		arc:      arc{a: a, b: b, t: t, n: n, cosT: cosT / h, sinT: sinT / h},
+		theta:    theta,
+		lengthM:  lengthM,
+		speedMps: speed,
 	}, segOK
 }
 
@@ -224,8 +227,13 @@ func mercatorY(latDeg float64) float64 {
 // meridian has Δx = Δy = 0 there, and its heading is then the limit as the clamp is lifted: 0 going
 // north, 180 going south.
 func mercatorHeadingDeg(a, b orb.Point) float64 {
+	return mercatorHeadingDegY(a, b, mercatorY(a[1]), mercatorY(b[1]))
+}
+
+// mercatorHeadingDegY is mercatorHeadingDeg with the ends' mercatorY given: ya of a, yb of b.
+func mercatorHeadingDegY(a, b orb.Point, ya, yb float64) float64 {
 	dx := math.Remainder(b[0]-a[0], 360) * degRad
-	dy := mercatorY(b[1]) - mercatorY(a[1])
+	dy := yb - ya
 	if dx == 0 && dy == 0 {
 		if b[1] < a[1] {
 			return 180
