@@ -368,11 +368,16 @@ func (r *driveRun) run() ([]Result, error) {
 			if err := st.Step(d.TickS, speed, turnDist, hasTurn); err != nil {
 				return nil, err
 			}
-			step := d.Rules.MaxTurnRateDegPerS * d.TickS
-			if m := rules.TurnMarginDeg(heading, target, step); m < r.turnMin {
-				r.turnMin = m
+			// At the segment's heading already (most ticks), TurnHeadingDeg
+			// would keep it and TurnMarginDeg be +Inf; a heading of ±0 is
+			// left to them (they give +0 for −0).
+			if heading != target || !(heading > 0) {
+				step := d.Rules.MaxTurnRateDegPerS * d.TickS
+				if m := rules.TurnMarginDeg(heading, target, step); m < r.turnMin {
+					r.turnMin = m
+				}
+				heading = rules.TurnHeadingDeg(heading, target, step)
 			}
-			heading = rules.TurnHeadingDeg(heading, target, step)
 		}
 		pos := walk.PointAt(along)
 		v := &views[k&1]

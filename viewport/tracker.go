@@ -38,16 +38,17 @@ type Tracker struct {
 	quick    quickTest
 
 	// Safe distances (see seeIndexed), kept for an epoch, which ends when
-	// the footprint's continuity does (empty, wrapped, first view): the
-	// footprint's vertices and the user at the view before, the vertices'
-	// total movement so far (Mercator metres), and per point the total up
-	// to which its answer holds.
-	prevOK    bool
-	prevVerts [4]Mercator
-	prevUser  Mercator
-	moved     float64
-	safeUntil []float64
-	due       []int32 // room for the points due at a step
+	// the footprint's continuity does (empty, wrapped, first view): T, the
+	// footprint's vertices about it and the user at the view before, the
+	// vertices' total movement so far (Mercator metres), and per point the
+	// total up to which its answer holds.
+	prevOK     bool
+	prevTarget Mercator
+	prevOffs   [4]Mercator
+	prevUser   Mercator
+	moved      float64
+	safeUntil  []float64
+	due        []int32 // room for the points due at a step
 	// The near list: points whose key lay below nearM when it was
 	// gathered (and so every point whose key lies below nearM), looked at
 	// every step while the movement stays below nearM.
@@ -228,16 +229,23 @@ func (r *Tracker) frame(v *View) {
 // metres (and a little more, so that a stopped view does not gather its
 // near list again at every tick).
 func (r *Tracker) advance(v *View) (h float64) {
-	var verts [4]Mercator
-	var d2 float64
-	for i, o := range r.offs {
-		p := Mercator{X: v.target.X + o.X, Y: v.target.Y + o.Y}
-		verts[i] = p
-		dx, dy := ShortDXM(p.X-r.prevVerts[i].X), p.Y-r.prevVerts[i].Y
-		d2 = max(d2, dx*dx+dy*dy)
-	}
+	t, pt := v.target, r.prevTarget
 	if r.prevOK {
-		r.moved = math.Nextafter(r.moved+math.Sqrt(d2), math.Inf(1))
+		var d float64
+		if r.offs == r.prevOffs {
+			// Neither turned, zoomed nor tilted (most ticks): the footprint
+			// moved as T did.
+			d = math.Hypot(ShortDXM(t.X-pt.X), t.Y-pt.Y)
+		} else {
+			var d2 float64
+			for i, o := range r.offs {
+				po := r.prevOffs[i]
+				dx, dy := ShortDXM((t.X+o.X)-(pt.X+po.X)), (t.Y+o.Y)-(pt.Y+po.Y)
+				d2 = max(d2, dx*dx+dy*dy)
+			}
+			d = math.Sqrt(d2)
+		}
+		r.moved = math.Nextafter(r.moved+d, math.Inf(1))
 		h = 8*math.Hypot(ShortDXM(v.user.X-r.prevUser.X), v.user.Y-r.prevUser.Y) + 1e-9*(1+r.moved)
 	} else {
 		// A new epoch: no earlier safe distance holds, and the near list
@@ -247,7 +255,7 @@ func (r *Tracker) advance(v *View) (h float64) {
 			r.safeUntil[i] = math.Inf(-1)
 		}
 	}
-	r.prevOK, r.prevVerts, r.prevUser = true, verts, v.user
+	r.prevOK, r.prevTarget, r.prevOffs, r.prevUser = true, t, r.offs, v.user
 	return h
 }
 
