@@ -41,3 +41,5 @@ require (
 )
 
 replace github.com/santhosh-tekuri/jsonschema/v6 => ./third_party/jsonschema
+
+replace pgregory.net/rapid => ./third_party/rapid

@@ -91,3 +91,5 @@ require (
 replace github.com/viewspec/viewspec => ../
 
 replace github.com/santhosh-tekuri/jsonschema/v6 => ../third_party/jsonschema
+
+replace pgregory.net/rapid => ../third_party/rapid

@@ -1,0 +1,3 @@
+module pgregory.net/rapid
+
+go 1.23
