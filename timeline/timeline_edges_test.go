@@ -7,6 +7,7 @@ import (
 	"github.com/paulmach/orb"
 
 	"github.com/viewspec/viewspec/routes"
+	"github.com/viewspec/viewspec/rules"
 	"github.com/viewspec/viewspec/timeline"
 	"github.com/viewspec/viewspec/viewport"
 )
@@ -108,5 +109,35 @@ func TestTimelineHeadingStepPerTick(t *testing.T) {
 			t.Errorf("heading %d ticks after the corner (t = %v s) = %v, want %v (off by %.3g°, tolerance %g°)",
 				j, float64(corner+j)*d.TickS, got, max(want, 0), got-max(want, 0), tol)
 		}
+	}
+}
+
+// A drive due north from longitude +0 to −0 has a segment heading of −0
+// (atan2(−0, Δy)). SPEC §3 turns the map with TurnHeadingDeg at every tick
+// after the first, which gives +0 for it; a tick already at the segment's
+// heading skips the turn rules only where they would give the heading back
+// to the bit, so from the second tick on the camera's heading is +0.
+func TestTimelineHeadingMinusZeroTurnsToPlusZero(t *testing.T) {
+	r, err := routes.New([]orb.Point{{0, 0}, {math.Copysign(0, -1), 0.05}}, []float64{20})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if h := r.Segment(0).HeadingDeg; h != 0 || !math.Signbit(h) {
+		t.Fatalf("segment heading %v (sign bit %v): want −0 for this route", h, math.Signbit(h))
+	}
+	d := timeline.NewDrive(r, 0, viewport.NewDevice(400, 800, 60), oneBand(16, 0))
+	d.HorizonS, d.BucketEdgesS = 2, [2]float64{0.5, 1}
+	var heads []float64
+	d.OnTick = func(_ int, v *viewport.View, _ []int) { heads = append(heads, v.Camera().HeadingDeg) }
+	if _, err := timeline.Compute(&d, nil); err != nil {
+		t.Fatal(err)
+	}
+	for k, h := range heads {
+		if want := rules.TurnHeadingDeg(r.Segment(0).HeadingDeg, r.Segment(0).HeadingDeg, 1); k > 0 && (h != want || math.Signbit(h) != math.Signbit(want)) {
+			t.Fatalf("tick %d: heading %v (sign bit %v), want %v (sign bit %v) as TurnHeadingDeg gives", k, h, math.Signbit(h), want, math.Signbit(want))
+		}
+	}
+	if len(heads) < 2 {
+		t.Fatalf("%d ticks: want several", len(heads))
 	}
 }
