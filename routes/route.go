@@ -67,6 +67,12 @@ func unitVec(p orb.Point) (v r3.Vector, sinLat, cosLat float64) {
 	return r3.Vector{X: cl * cosLat, Y: sl * cosLat, Z: sinLat}, sinLat, cosLat
 }
 
+// prepUnit returns prepLatLon(p[1], p[0]) from the sine and cosine of p's latitude that unitVec
+// found (exactly ±1 and 0 at a pole), the same numbers, without finding them again.
+func prepUnit(p orb.Point, sinLat, cosLat float64) ellPoint {
+	return prepSinCos(p[1], p[0], sinLat, cosLat)
+}
+
 // latLonOf returns the [lon, lat] degrees of a unit vector.
 func latLonOf(v r3.Vector) orb.Point {
 	return orb.Point{math.Atan2(v.Y, v.X) * radDeg, math.Atan2(v.Z, math.Sqrt(v.X*v.X+v.Y*v.Y)) * radDeg}
@@ -115,14 +121,14 @@ func New(points []orb.Point, speedsMps []float64) (*Route, error) {
 	}
 	r := &Route{segs: make([]segment, 0, len(points)-1), pts: make([]orb.Point, 0, len(points)), preps: make([]ellPoint, 0, len(points))}
 	prevIdx := 0
-	prevVec, _, _ := unitVec(points[0])
-	prevPrep := prepLatLon(points[0][1], points[0][0])
+	prevVec, sLat, cLat := unitVec(points[0])
+	prevPrep := prepUnit(points[0], sLat, cLat)
 	prevY := mercatorY(points[0][1]) // each vertex's Mercator y is found once
 	r.pts = append(r.pts, points[0])
 	r.preps = append(r.preps, prevPrep)
 	for j := 1; j < len(points); j++ {
-		v, _, _ := unitVec(points[j])
-		pp := prepLatLon(points[j][1], points[j][0])
+		v, sLat, cLat := unitVec(points[j])
+		pp := prepUnit(points[j], sLat, cLat)
 		lengthM := inverseDist(&prevPrep, &pp)
 		if lengthM == 0 || v == prevVec {
 			continue // zero-length segment: drop the vertex and its speed entry

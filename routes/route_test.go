@@ -14,6 +14,7 @@ import (
 	"testing"
 
 	"github.com/paulmach/orb"
+	"pgregory.net/rapid"
 
 	"github.com/viewspec/viewspec/internal/testtool"
 	"github.com/viewspec/viewspec/spec"
@@ -287,4 +288,21 @@ func TestNewNearlyCoincidentVertices(t *testing.T) {
 			}
 		}
 	}
+}
+
+// New prepares each vertex for the geodesic from the sine and cosine of its
+// latitude that unitVec found (prepUnit); the prepared point is prepLatLon's
+// to the bit, the poles (which prepLatLon treats apart) included.
+func TestPrepUnitIsPrepLatLon(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		lat := rapid.OneOf(rapid.Float64Range(-90, 90), rapid.SampledFrom([]float64{-90, 90, 0, math.Copysign(0, -1), 89.99999999, -1e-300})).Draw(t, "lat")
+		lon := rapid.Float64Range(-180, 180).Draw(t, "lon")
+		p := orb.Point{lon, lat}
+		_, s, c := unitVec(p)
+		got, want := prepUnit(p, s, c), prepLatLon(lat, lon)
+		same := func(a, b float64) bool { return math.Float64bits(a) == math.Float64bits(b) }
+		if !same(got.latDeg, want.latDeg) || !same(got.lonDeg, want.lonDeg) || !same(got.sinU, want.sinU) || !same(got.cosU, want.cosU) {
+			t.Fatalf("prepUnit(%v) = %+v, prepLatLon gives %+v", p, got, want)
+		}
+	})
 }
