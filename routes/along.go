@@ -150,7 +150,7 @@ func (r *Route) findTurns(minAngleDeg float64) []float64 {
 // HeadingChangeDeg returns the size, in degrees in [0, 180], of the turn from heading fromDeg to
 // heading toDeg the short way round.
 func HeadingChangeDeg(fromDeg, toDeg float64) float64 {
-	return math.Abs(math.Remainder(toDeg-fromDeg, 360))
+	return math.Abs(remainder360(toDeg - fromDeg))
 }
 
 // NextTurnDistM returns the along-route distance in metres from alongM to the first turn strictly

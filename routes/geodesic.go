@@ -208,10 +208,20 @@ func vincenty(p1, p2 *ellPoint, wantAz bool) (s, az1, az2 float64, ok bool) {
 func GreatCircleRad(a, b orb.Point) float64 {
 	s1, c1 := math.Sincos(a[1] * degRad)
 	s2, c2 := math.Sincos(b[1] * degRad)
-	sl, cl := math.Sincos(math.Remainder(b[0]-a[0], 360) * degRad)
+	sl, cl := math.Sincos(remainder360(b[0]-a[0]) * degRad)
 	t1 := c2 * sl
 	t2 := c1*s2 - s1*c2*cl
 	return math.Atan2(math.Sqrt(t1*t1+t2*t2), s1*s2+c1*c2*cl)
+}
+
+// remainder360 returns math.Remainder(d, 360), d in degrees taken to [−180, 180], without the
+// division where d is already there (most differences of longitudes and headings), where the
+// remainder is d itself.
+func remainder360(d float64) float64 {
+	if d >= -180 && d <= 180 {
+		return d
+	}
+	return math.Remainder(d, 360)
 }
 
 // normDeg maps an angle in degrees to [0, 360).

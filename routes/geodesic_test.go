@@ -14,6 +14,7 @@ import (
 	"github.com/golang/geo/r3"
 	"github.com/golang/geo/s2"
 	"github.com/paulmach/orb"
+	"pgregory.net/rapid"
 
 	"github.com/viewspec/viewspec/internal/testtool"
 )
@@ -444,4 +445,22 @@ func TestVincentyConvergesOutsideTheGuard(t *testing.T) {
 			}
 		}
 	}
+}
+
+// remainder360 is math.Remainder(d, 360) to the bit, on every kind of
+// float: within ±180 (where it returns d), at ±180 itself (ties go to the
+// even quotient, 0), just beyond, far beyond, ±0, ±Inf and NaN.
+func TestRemainder360IsRemainder(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		d := rapid.OneOf(
+			rapid.Float64Range(-720, 720),
+			rapid.Float64(),
+			rapid.SampledFrom([]float64{180, -180, math.Nextafter(180, 181), math.Nextafter(-180, -181), math.Nextafter(180, 0),
+				540, -540, 0, math.Copysign(0, -1), math.Inf(1), math.Inf(-1), math.NaN(), 5e-324, 1e300}),
+		).Draw(t, "d")
+		got, want := remainder360(d), math.Remainder(d, 360)
+		if math.Float64bits(got) != math.Float64bits(want) && !(math.IsNaN(got) && math.IsNaN(want)) {
+			t.Fatalf("remainder360(%v) = %v, math.Remainder gives %v", d, got, want)
+		}
+	})
 }

@@ -54,11 +54,12 @@ type item struct {
 }
 
 // arcBox returns a box containing the minor arc from a to b of angle theta: the ends' box grown
-// by the arc's bulge away from its chord, 1 − cos(θ/2).
+// by the arc's bulge away from its chord, 1 − cos(θ/2). The built-in min and max order ±0 and
+// NaN as math.Min and math.Max do, without a call.
 func arcBox(sg *segment) (lo, hi r3.Vector) {
 	bulge := 1 - math.Cos(sg.theta/2) + boxPad
-	lo = r3.Vector{X: math.Min(sg.a.X, sg.b.X) - bulge, Y: math.Min(sg.a.Y, sg.b.Y) - bulge, Z: math.Min(sg.a.Z, sg.b.Z) - bulge}
-	hi = r3.Vector{X: math.Max(sg.a.X, sg.b.X) + bulge, Y: math.Max(sg.a.Y, sg.b.Y) + bulge, Z: math.Max(sg.a.Z, sg.b.Z) + bulge}
+	lo = r3.Vector{X: min(sg.a.X, sg.b.X) - bulge, Y: min(sg.a.Y, sg.b.Y) - bulge, Z: min(sg.a.Z, sg.b.Z) - bulge}
+	hi = r3.Vector{X: max(sg.a.X, sg.b.X) + bulge, Y: max(sg.a.Y, sg.b.Y) + bulge, Z: max(sg.a.Z, sg.b.Z) + bulge}
 	return lo, hi
 }
 

@@ -238,7 +238,7 @@ func mercatorHeadingDeg(a, b orb.Point) float64 {
 
 // mercatorHeadingDegY is mercatorHeadingDeg with the ends' mercatorY given: ya of a, yb of b.
 func mercatorHeadingDegY(a, b orb.Point, ya, yb float64) float64 {
-	dx := math.Remainder(b[0]-a[0], 360) * degRad
+	dx := remainder360(b[0]-a[0]) * degRad
 	dy := yb - ya
 	if dx == 0 && dy == 0 {
 		if b[1] < a[1] {
