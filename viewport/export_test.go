@@ -65,3 +65,10 @@ func SafeDistanceM(v *View, m Mercator) (distM float64, in, ok bool) {
 	}
 	return safeDistM(math.Abs(d), q.safeToM(), capM), d < 0, true
 }
+
+// TrackerKeys returns a copy of the tracker's keys (the total movement,
+// Mercator metres, up to which each point's answer holds; −Inf: due at the
+// next step) and its total movement so far.
+func TrackerKeys(tr *Tracker) (keys []float64, movedM float64) {
+	return append([]float64(nil), tr.safeUntil...), tr.moved
+}

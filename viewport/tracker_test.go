@@ -213,3 +213,89 @@ func TestTrackerPlainAndReset(t *testing.T) {
 		}
 	}
 }
+
+// The tracker's bookkeeping, held to its definition on a view that moves
+// ahead and now and then turns (no zoom or tilt), where it can be worked out
+// apart from the tracker: the total movement grows by the farthest any
+// vertex of the footprint moved (Footprint's vertices); a point whose key
+// the movement has not reached keeps it to the bit (it is not tested), and
+// one whose key it has reached is tested and gets the movement plus its
+// safe distance as its new key. The answers alone cannot show a tracker
+// that tests too often, or counts the footprint's movement too large; this
+// does.
+func TestTrackerTestsExactlyWhenDue(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		c := props.Camera().Draw(t, "camera")
+		c.Zoom = rapid.Float64Range(10, 20).Draw(t, "zoom")
+		var v viewport.View
+		if err := v.Place(c); err != nil || v.Wrapped() || v.Footprint().Empty {
+			t.Skip("no footprint to follow")
+		}
+		start := viewport.ToMercator(c.User())
+		reachM := 100.0 // the footprint's reach from the user, Mercator metres
+		for _, p := range v.Footprint().Mercator {
+			reachM = math.Max(reachM, math.Hypot(p.X-start.X, p.Y-start.Y))
+		}
+		spanM := 2 * reachM
+		pts := make([]viewport.Mercator, rapid.IntRange(1, 60).Draw(t, "points"))
+		for i := range pts {
+			pts[i] = viewport.Mercator{X: start.X + rapid.Float64Range(-1, 1).Draw(t, "dx")*spanM,
+				Y: start.Y + rapid.Float64Range(-1, 1).Draw(t, "dy")*spanM}
+		}
+		tr := viewport.NewTracker(pts)
+		stepM := props.LogUniform(0.01, spanM/20).Draw(t, "step_m")
+		var prevKeys []float64
+		var prevMoved float64
+		var prevVerts [4]viewport.Mercator
+		for step := range rapid.IntRange(2, 40).Draw(t, "steps") {
+			if step > 0 {
+				h := c.HeadingDeg * math.Pi / 180
+				u := viewport.ToMercator(c.User())
+				u.X, u.Y = u.X+stepM*math.Sin(h), u.Y+stepM*math.Cos(h)
+				ll := u.LatLon()
+				c.LatDeg, c.LonDeg = ll[1], ll[0]
+				if rapid.IntRange(0, 3).Draw(t, "turn_or_not") == 0 {
+					c.HeadingDeg = math.Mod(c.HeadingDeg+360+rapid.Float64Range(-10, 10).Draw(t, "turn_deg"), 360)
+				}
+				if err := v.Place(c); err != nil || v.Wrapped() || v.Footprint().Empty {
+					return // the drive left the map's middle: what was checked stands
+				}
+			}
+			tr.See(&v)
+			keys, moved := viewport.TrackerKeys(tr)
+			verts := v.Footprint().Mercator
+			if step > 0 {
+				var wantD float64
+				for i, p := range verts {
+					wantD = math.Max(wantD, math.Hypot(viewport.ShortDXM(p.X-prevVerts[i].X), p.Y-prevVerts[i].Y))
+				}
+				if d := moved - prevMoved; math.Abs(d-wantD) > 1e-6+1e-12*moved {
+					t.Fatalf("step %d: the movement grew by %.12g m, the footprint's vertices moved %.12g m at most", step, d, wantD)
+				}
+			}
+			for i, m := range pts {
+				// A point not due keeps its key to the bit; a point due is
+				// tested and keyed anew from the movement now (which can
+				// give the same key back when the movement since is below
+				// the key's last place, so a changed key is not the test).
+				if due := step == 0 || prevKeys[i] <= moved; !due {
+					if keys[i] != prevKeys[i] {
+						t.Fatalf("step %d, point %d: key %.12g not reached by the movement %.12g, but tested (key now %.12g)", step, i, prevKeys[i], moved, keys[i])
+					}
+					continue
+				}
+				safeM, _, ok := viewport.SafeDistanceM(&v, m)
+				if !ok {
+					if !math.IsInf(keys[i], -1) {
+						t.Fatalf("step %d, point %d: unsure, but its key is %g, not due at the next step", step, i, keys[i])
+					}
+					continue
+				}
+				if want := moved + safeM; math.Abs(keys[i]-want) > 1e-9*(1+math.Abs(want)) {
+					t.Fatalf("step %d, point %d: key %.12g, want the movement %.12g plus the safe distance %.12g", step, i, keys[i], moved, safeM)
+				}
+			}
+			prevKeys, prevMoved, prevVerts = keys, moved, verts
+		}
+	})
+}
