@@ -82,7 +82,7 @@ func axis32(l, h float64) (c, e float32) {
 	// than c), so the half-extent is found by stepping from their float32 rounding; holding is
 	// monotone in e, and the least e is a step or two away.
 	al, ah := math.Abs(l-cf), math.Abs(h-cf)
-	holds := func(e float32) bool { return zeroGap(al, float64(e)) && zeroGap(ah, float64(e)) }
+	holds := func(e float32) bool { return gapAt(al, float64(e)) == 0 && gapAt(ah, float64(e)) == 0 }
 	e = float32(math.Max(h-cf, cf-l))
 	for e > 0 && holds(stepDown32(e)) {
 		e = stepDown32(e)
@@ -91,14 +91,6 @@ func axis32(l, h float64) (c, e float32) {
 		e = stepUp32(e)
 	}
 	return c, e
-}
-
-// zeroGap reports whether gap(v, c, e) is 0 for v at distance a = |v − c| from c: the same
-// arithmetic, the distance found once for the several e tried.
-func zeroGap(a, e float64) bool {
-	t := a - e
-	d := (t + math.Abs(t)) * 0.5
-	return d*d == 0
 }
 
 // stepDown32 returns math.Nextafter32(e, 0) for e > 0, by its bits where it can.
@@ -409,8 +401,11 @@ func (b *box32) boxDist2(q r3.Vector) float64 {
 // innermost arithmetic, so it is written without branches or min/max (the branches of a comparison
 // mispredict on scattered queries, and min/max carry NaN and signed-zero care not needed here):
 // with t = |v − c| − e, the distance is max(t, 0) = (t + |t|)/2.
-func gap(v, c, e float64) float64 {
-	t := math.Abs(v-c) - e
+func gap(v, c, e float64) float64 { return gapAt(math.Abs(v-c), e) }
+
+// gapAt is gap for a v at distance a = |v − c| from c: toBox32 tries several e at one distance.
+func gapAt(a, e float64) float64 {
+	t := a - e
 	d := (t + math.Abs(t)) * 0.5
 	return d * d
 }
