@@ -52,12 +52,7 @@ func followDrawnView(t *rapid.T, maxPoints int, maxSpanM float64, maxStepM func(
 	stepM := props.LogUniform(0.01, maxStepM(spanM)).Draw(t, "step_m")
 	for step := range rapid.IntRange(1, maxSteps).Draw(t, "steps") {
 		if step > 0 {
-			u := viewport.ToMercator(c.User())
-			h := c.HeadingDeg * math.Pi / 180
-			u.X += stepM * math.Sin(h)
-			u.Y += stepM * math.Cos(h)
-			ll := u.LatLon()
-			c.LatDeg, c.LonDeg = ll[1], ll[0]
+			moveAhead(&c, stepM)
 			change(&c)
 		}
 		if err := v.Place(c); err != nil {
@@ -68,6 +63,15 @@ func followDrawnView(t *rapid.T, maxPoints int, maxSpanM float64, maxStepM func(
 	if k, i := bad(); k >= 0 {
 		t.Fatalf("step %d: the tracker's answer for point %d (%v) is not ProjectMercator's", k, i, pts[i])
 	}
+}
+
+// moveAhead moves c's user stepM Mercator metres ahead along its heading.
+func moveAhead(c *viewport.Camera, stepM float64) {
+	u := viewport.ToMercator(c.User())
+	h := c.HeadingDeg * math.Pi / 180
+	u.X, u.Y = u.X+stepM*math.Sin(h), u.Y+stepM*math.Cos(h)
+	ll := u.LatLon()
+	c.LatDeg, c.LonDeg = ll[1], ll[0]
 }
 
 // A marker's safe distance never exceeds how far the footprint must move to
@@ -186,11 +190,7 @@ func TestTrackerPlainAndReset(t *testing.T) {
 		var v viewport.View
 		for step := range 40 {
 			if step > 0 {
-				u := viewport.ToMercator(cam.User())
-				h := cam.HeadingDeg * math.Pi / 180
-				u.X, u.Y = u.X+12*math.Sin(h), u.Y+12*math.Cos(h)
-				ll := u.LatLon()
-				cam.LatDeg, cam.LonDeg = ll[1], ll[0]
+				moveAhead(&cam, 12)
 				if step%7 == 0 {
 					cam.HeadingDeg = math.Mod(cam.HeadingDeg+9, 360)
 				}
@@ -249,11 +249,7 @@ func TestTrackerTestsExactlyWhenDue(t *testing.T) {
 		var prevVerts [4]viewport.Mercator
 		for step := range rapid.IntRange(2, 40).Draw(t, "steps") {
 			if step > 0 {
-				h := c.HeadingDeg * math.Pi / 180
-				u := viewport.ToMercator(c.User())
-				u.X, u.Y = u.X+stepM*math.Sin(h), u.Y+stepM*math.Cos(h)
-				ll := u.LatLon()
-				c.LatDeg, c.LonDeg = ll[1], ll[0]
+				moveAhead(&c, stepM)
 				if rapid.IntRange(0, 3).Draw(t, "turn_or_not") == 0 {
 					c.HeadingDeg = math.Mod(c.HeadingDeg+360+rapid.Float64Range(-10, 10).Draw(t, "turn_deg"), 360)
 				}
