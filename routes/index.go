@@ -1,7 +1,7 @@
 package routes
 
-// The spatial index: a binary tree over the segments, split at the median of their centres along
-// the widest axis (k-d style). Each internal node holds, for each of its two children, an
+// The spatial index: a binary tree over the segments, split at (or next to) the median of their
+// centres along the widest axis (k-d style), so that every leaf is nearly full (splitAt). Each internal node holds, for each of its two children, an
 // axis-aligned box in 3-D space (unit-sphere units) containing every arc below that child, and the
 // largest segment index below it. Working with the unit vectors, not with longitude and latitude,
 // leaves no seam at the antimeridian and no singularity at the poles. The Euclidean distance from Q
@@ -10,10 +10,10 @@ package routes
 // keeps the boxes apart even where a route crosses itself many times (a tree over runs of
 // consecutive segments had ~60 boxes over every point of a tangled 20,000-vertex drive). "At or
 // ahead of segment u" skips children whose largest index is below u. Queries open about ten nodes
-// and leaves on a 500-vertex city drive, 24 on a 20,000-vertex one, 31 on a 20,000-vertex tangle,
+// and leaves on a 500-vertex city drive, 22 on a 20,000-vertex one, 29 on a 20,000-vertex tangle,
 // within 15% of the nodes any search must open (index_work_test.go bounds them).
 //
-// The build (treeBuilder) is O(n log n): each split finds the median by selection, in time linear
+// The build (treeBuilder) is O(n log n): each split finds its place by selection, in time linear
 // in the node's segments, not by sorting them, and the boxes are made bottom-up, a parent's from
 // its children's. Centres that tie along the split axis go by segment index, so every split, and
 // so the tree, is fully determined by the segments: the same tree a sort at every level made.
@@ -45,22 +45,36 @@ type node struct {
 	maxSeg [2]int32 // largest segment index under each child
 }
 
-// item is one segment in the index's leaf order: its arc, its index along the route, and whether
-// it ends its leaf.
+// item is one segment in the index's leaf order: its index along the route, and whether it ends
+// its leaf. The search reads the segment's arc from the route's segments: a leaf's segments are
+// near each other, and so, on a road, mostly near each other along the route, and a copy of the
+// arcs in leaf order (kept until 2026-12) cost 2.2 MB on a 20,000-vertex route and the time to
+// make it, and made the queries no faster (BenchmarkMetrics200x20000 within 1%).
 type item struct {
-	arc
 	seg int32
 	end bool
 }
 
 // arcBox returns a box containing the minor arc from a to b of angle theta: the ends' box grown
-// by the arc's bulge away from its chord, 1 − cos(θ/2). The built-in min and max order ±0 and
-// NaN as math.Min and math.Max do, without a call.
+// by the arc's bulge away from its chord (arcBulge) and boxPad. The built-in min and max order ±0
+// and NaN as math.Min and math.Max do, without a call.
 func arcBox(sg *segment) (lo, hi r3.Vector) {
-	bulge := 1 - math.Cos(sg.theta/2) + boxPad
+	bulge := arcBulge(sg.cosT, sg.sinT) + boxPad
 	lo = r3.Vector{X: min(sg.a.X, sg.b.X) - bulge, Y: min(sg.a.Y, sg.b.Y) - bulge, Z: min(sg.a.Z, sg.b.Z) - bulge}
 	hi = r3.Vector{X: max(sg.a.X, sg.b.X) + bulge, Y: max(sg.a.Y, sg.b.Y) + bulge, Z: max(sg.a.Z, sg.b.Z) + bulge}
 	return lo, hi
+}
+
+// arcBulge returns how far a minor arc of angle θ ∈ [0, π) leaves its chord, 1 − cos(θ/2), from
+// cos θ and sin θ by the half-angle formulas: cos(θ/2) = √((1 + cos θ)/2) up to θ = π/2, and
+// beyond, where 1 + cos θ cancels, sin θ / √(2(1 − cos θ)). A square root costs less than a
+// cosine, and the result is within a few 1e-16 of the cosine's (TestArcBulgeIsHalfAngle), well
+// inside boxPad.
+func arcBulge(cosTheta, sinTheta float64) float64 {
+	if cosTheta >= 0 {
+		return 1 - math.Sqrt((1+cosTheta)/2)
+	}
+	return 1 - sinTheta/math.Sqrt(2*(1-cosTheta))
 }
 
 // toBox32 rounds the box [lo, hi] outwards into a box32: about the float32 nearest its centre,
@@ -82,6 +96,16 @@ func axis32(l, h float64) (c, e float32) {
 	// than c), so the half-extent is found by stepping from their float32 rounding; holding is
 	// monotone in e, and the least e is a step or two away.
 	al, ah := math.Abs(l-cf), math.Abs(h-cf)
+	// Where the larger distance m is finite and not tiny, gap holds a corner exactly when e ≥ m
+	// (a shortfall m − e > 0 is then at least 2⁻⁴⁵⁴, whose square does not underflow), so the
+	// least e is m rounded up to a float32.
+	if m := max(al, ah); m >= 0x1p-400 && m <= math.MaxFloat64 {
+		e = float32(m)
+		if float64(e) < m {
+			e = stepUp32(e)
+		}
+		return c, e
+	}
 	holds := func(e float32) bool { return gapAt(al, float64(e)) == 0 && gapAt(ah, float64(e)) == 0 }
 	e = float32(math.Max(h-cf, cf-l))
 	for e > 0 && holds(stepDown32(e)) {
@@ -120,9 +144,11 @@ func buildTree(segs []segment) ([]node, int32, []item) {
 // newTreeBuilder returns a builder for the tree over segs, with each segment's box and centre made.
 func newTreeBuilder(segs []segment) *treeBuilder {
 	b := &treeBuilder{
-		segs:  segs,
-		es:    make([]buildEntry, len(segs)),
-		nodes: make([]node, 0, 2*(len(segs)/leafSegs+1)),
+		segs: segs,
+		es:   make([]buildEntry, len(segs)),
+		// One node fewer than the ⌈n/leafSegs⌉ leaves (splitAt); at least one, so that every route
+		// allocates alike.
+		nodes: make([]node, 0, max(1, (len(segs)-1)/leafSegs)),
 		items: make([]item, len(segs)),
 	}
 	for i := range segs {
@@ -133,12 +159,13 @@ func newTreeBuilder(segs []segment) *treeBuilder {
 	return b
 }
 
-// treeBuilder builds the index top-down, splitting each range of entries at the median of their
-// box centres along the widest axis of those centres, and makes the boxes bottom-up:
+// treeBuilder builds the index top-down, splitting each range of entries at (or next to) the
+// median of their box centres along the widest axis of those centres (splitAt says where), and
+// makes the boxes bottom-up:
 //
-//   - the split selects the median (selectNth), which leaves the lower half before it and the upper
-//     half after it, each in no particular order, in time linear in the range, so a level of the
-//     tree costs O(n) and the build O(n log n) (sorting every range instead cost O(n log² n));
+//   - the split selects the entry at its place (selectNth), which leaves the lower part before it
+//     and the upper after it, each in no particular order, in time linear in the range, so a level
+//     of the tree costs O(n) and the build O(n log n) (sorting every range cost O(n log² n));
 //   - a leaf's box is made from its segments' boxes and an internal node's from its children's;
 //     a segment's box is made twice, for its centre at the start and in its leaf, which costs less
 //     than keeping it (read in leaf order, a kept box was a cache miss on a large route: New on
@@ -187,7 +214,7 @@ func (b *treeBuilder) build(first, last int) subtree {
 		return b.leaf(first, last)
 	}
 	axis := b.widestAxis(first, last)
-	mid := (first + last) / 2
+	mid := first + splitAt(last-first)
 	b.work += selectNth(b.es[first:last], mid-first, axis)
 	idx := int32(len(b.nodes))
 	b.nodes = append(b.nodes, node{})
@@ -199,6 +226,16 @@ func (b *treeBuilder) build(first, last int) subtree {
 		maxSeg: [2]int32{l.maxSeg, r.maxSeg},
 	}
 	return subtree{code: idx, box: l.box.union(&r.box), maxSeg: max(l.maxSeg, r.maxSeg)}
+}
+
+// splitAt returns how many of a node's n > leafSegs entries go to its lower child: the node's
+// ⌈n/leafSegs⌉ leaves are shared ⌈half⌉ to the lower child, ⌊half⌋ to the upper, and its entries
+// in proportion, so every leaf below holds ⌊n/L⌋ or ⌈n/L⌉ of the L leaves' entries. Splitting at
+// the plain median instead left leaves of 2 or 3 entries on routes a little longer than a power of
+// two times leafSegs (20,000 segments: 8,192 leaves, against 5,000 now).
+func splitAt(n int) int {
+	leaves := (n + leafSegs - 1) / leafSegs
+	return n * ((leaves + 1) / 2) / leaves
 }
 
 // leaf makes es[first:last] a leaf, its entries written out as items in the order they are in. A
@@ -214,7 +251,7 @@ func (b *treeBuilder) leaf(first, last int) subtree {
 		lo, hi := arcBox(sg) // made again, in leaf order, rather than kept in segment order
 		st.box = st.box.union(&segBox{lo, hi})
 		st.maxSeg = max(st.maxSeg, seg)
-		b.items[first+k] = item{arc: sg.arc, seg: seg}
+		b.items[first+k] = item{seg: seg}
 	}
 	b.items[last-1].end = true
 	return st
@@ -494,7 +531,7 @@ func arcClosest(sg *arc, onU bool, qq *query) (c2 float64, at int, x, y float64)
 }
 
 // stackCap bounds the depth-first stack: popping one node pushes at most its two children, so the
-// stack never holds more than the tree's depth + 1 entries, and a median-split tree over fewer than
+// stack never holds more than the tree's depth + 1 entries, and a balanced tree over fewer than
 // 2³¹ segments in leaves of leafSegs is at most 31 deep.
 const stackCap = 34
 
@@ -546,7 +583,7 @@ func (r *Route) search(qq *query) (seg, opened int) {
 			for k := ^e.code; ; k++ {
 				it := &r.items[k]
 				if it.seg >= u {
-					c2, _, _, _ := arcClosest(&it.arc, it.seg == u, qq)
+					c2, _, _, _ := arcClosest(&r.segs[it.seg].arc, it.seg == u, qq)
 					if c2 <= thr {
 						if c2 < best {
 							best = c2
@@ -641,7 +678,7 @@ func (r *Route) firstWithin(qq *query, limitRad float64) (seg, opened int) {
 			for k := ^code; ; k++ {
 				it := &r.items[k]
 				if it.seg >= u && it.seg < win {
-					if c2, _, _, _ := arcClosest(&it.arc, it.seg == u, qq); c2 <= thr && chordAngle(c2) <= limitRad {
+					if c2, _, _, _ := arcClosest(&r.segs[it.seg].arc, it.seg == u, qq); c2 <= thr && chordAngle(c2) <= limitRad {
 						win = it.seg
 					}
 				}

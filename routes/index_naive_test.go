@@ -43,7 +43,7 @@ func buildTreeSort(segs []segment) ([]node, int32, []item) {
 			ends[last-1] = true
 			return ^int32(first)
 		}
-		// Split at the median of the centres along their widest axis.
+		// Split at the median of the centres along their widest axis, or next to it (splitAt).
 		cLo := r3.Vector{X: math.Inf(1), Y: math.Inf(1), Z: math.Inf(1)}
 		cHi := cLo.Mul(-1)
 		for _, e := range es[first:last] {
@@ -65,7 +65,7 @@ func buildTreeSort(segs []segment) ([]node, int32, []item) {
 			}
 			return part[i].seg < part[j].seg // deterministic
 		})
-		mid := (first + last) / 2
+		mid := first + splitAt(last-first)
 		idx := int32(len(nodes))
 		nodes = append(nodes, node{})
 		var nd node
@@ -79,7 +79,7 @@ func buildTreeSort(segs []segment) ([]node, int32, []item) {
 	root := build(0, len(segs))
 	items := make([]item, len(es))
 	for i, e := range es {
-		items[i] = item{arc: segs[e.seg].arc, seg: e.seg, end: ends[i]}
+		items[i] = item{seg: e.seg, end: ends[i]}
 	}
 	return nodes, root, items
 }

@@ -2,6 +2,7 @@ package routes
 
 import (
 	"math"
+	"math/bits"
 	"math/rand/v2"
 	"testing"
 
@@ -309,4 +310,42 @@ func TestPropMedianOfMediansPivot(t *testing.T) {
 			t.Fatalf("pivotMedianOfMedians of %d entries: rank %d, want %d or more on each side", n, rank, lo)
 		}
 	})
+}
+
+// TestSplitAtFillsLeaves: the splits share a node's entries so that a tree
+// over n entries has exactly L = ⌈n/leafSegs⌉ leaves, each of ⌊n/L⌋ or
+// ⌈n/L⌉ entries, and is ⌈log₂ L⌉ deep (a balanced binary tree over L
+// leaves); so its internal nodes, L − 1, fit the node slice newTreeBuilder
+// makes. Checked for every n up to 20,000, the benchmarks' largest route.
+func TestSplitAtFillsLeaves(t *testing.T) {
+	for n := 1; n <= 20000; n++ {
+		L := (n + leafSegs - 1) / leafSegs
+		lo, hi := n/L, (n+L-1)/L
+		leaves, depth := 0, 0
+		var walk func(m, d int)
+		walk = func(m, d int) {
+			if m <= leafSegs {
+				leaves++
+				depth = max(depth, d)
+				if m < lo || m > hi {
+					t.Fatalf("n = %d: a leaf of %d entries, want %d to %d", n, m, lo, hi)
+				}
+				return
+			}
+			k := splitAt(m)
+			if k <= 0 || k >= m {
+				t.Fatalf("n = %d: splitAt(%d) = %d", n, m, k)
+			}
+			walk(k, d+1)
+			walk(m-k, d+1)
+		}
+		walk(n, 0)
+		wantDepth := bits.Len(uint(L - 1))
+		if leaves != L || depth != wantDepth {
+			t.Fatalf("n = %d: %d leaves %d deep, want %d leaves %d deep", n, leaves, depth, L, wantDepth)
+		}
+		if nodes := leaves - 1; nodes > max(1, (n-1)/leafSegs) {
+			t.Fatalf("n = %d: %d internal nodes, more than the %d newTreeBuilder makes room for", n, nodes, (n-1)/leafSegs)
+		}
+	}
 }
