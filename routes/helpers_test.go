@@ -87,3 +87,6 @@ func TestOffsetPointDistance(t *testing.T) {
 		}
 	}
 }
+
+// centre returns the entry's centre along axis.
+func (e *buildEntry) centre(axis int) float64 { return orderedFloat(e.key[axis]) }

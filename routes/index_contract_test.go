@@ -17,7 +17,7 @@ import (
 func keyed(n int, key func(i int) float64) []buildEntry {
 	es := make([]buildEntry, n)
 	for i := range es {
-		es[i] = buildEntry{centre: [3]float64{key(i)}, seg: int32(i)}
+		es[i] = newBuildEntry(r3.Vector{X: key(i)}, int32(i))
 	}
 	return es
 }

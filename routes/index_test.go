@@ -6,6 +6,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
+	"github.com/golang/geo/r3"
 	"github.com/paulmach/orb"
 	"pgregory.net/rapid"
 )
@@ -182,7 +183,7 @@ func TestPropSelectNth(t *testing.T) {
 		es := make([]buildEntry, n)
 		for i := range es {
 			es[i].seg = int32(i)
-			es[i].centre[axis] = keys.Draw(t, "key")
+			es[i].key[axis] = orderedKey(keys.Draw(t, "key"))
 		}
 		if order != "drawn" {
 			insertionSort(es, axis)
@@ -279,7 +280,7 @@ func TestWidestAxis(t *testing.T) {
 	} {
 		b := treeBuilder{}
 		for i, ct := range c.centres {
-			b.es = append(b.es, buildEntry{centre: ct, seg: int32(i)})
+			b.es = append(b.es, newBuildEntry(r3.Vector{X: ct[0], Y: ct[1], Z: ct[2]}, int32(i)))
 		}
 		if got := b.widestAxis(0, len(b.es)); got != c.want {
 			t.Errorf("%s: widestAxis(%v) = %d, want %d", c.desc, c.centres, got, c.want)
@@ -297,7 +298,7 @@ func TestPropMedianOfMediansPivot(t *testing.T) {
 		keys := rapid.SliceOfN(rapid.SampledFrom([]float64{0, 1, 2, 3}), n, n).Draw(t, "keys")
 		es := make([]buildEntry, n)
 		for i, k := range keys {
-			es[i] = buildEntry{centre: [3]float64{0, 0, k}, seg: int32(i)}
+			es[i] = newBuildEntry(r3.Vector{Z: k}, int32(i))
 		}
 		p, _ := pivotMedianOfMedians(es, 0, n, 2)
 		rank := 0
@@ -348,4 +349,37 @@ func TestSplitAtFillsLeaves(t *testing.T) {
 			t.Fatalf("n = %d: %d internal nodes, more than the %d newTreeBuilder makes room for", n, nodes, (n-1)/leafSegs)
 		}
 	}
+}
+
+// TestOrderedKeyOrdersAsFloats: orderedKey orders every two floats other
+// than NaN as float comparison does (−0 and +0 equal), and orderedFloat
+// undoes it (−0 coming back as +0), on floats of every kind: subnormal,
+// huge, infinite, ±0, and neighbours one step apart.
+func TestOrderedKeyOrdersAsFloats(t *testing.T) {
+	value := rapid.OneOf(
+		rapid.Float64(),
+		rapid.Float64Range(-1e-300, 1e-300),
+		rapid.SampledFrom([]float64{0, math.Copysign(0, -1), 5e-324, -5e-324, 1, -1, math.MaxFloat64, -math.MaxFloat64, math.Inf(1), math.Inf(-1)}),
+	)
+	rapid.Check(t, func(t *rapid.T) {
+		a := value.Draw(t, "a")
+		b := value.Draw(t, "b")
+		if rapid.Bool().Draw(t, "neighbour") {
+			b = math.Nextafter(a, b)
+		}
+		if math.IsNaN(a) || math.IsNaN(b) {
+			t.Skip("NaN has no order (no box centre is NaN)")
+		}
+		ka, kb := orderedKey(a), orderedKey(b)
+		if (a < b) != (ka < kb) || (a == b) != (ka == kb) {
+			t.Fatalf("a = %g, b = %g: keys %d and %d order them otherwise", a, b, ka, kb)
+		}
+		back := orderedFloat(ka)
+		if a == 0 {
+			a = 0 // −0 comes back as +0
+		}
+		if math.Float64bits(back) != math.Float64bits(a) {
+			t.Fatalf("orderedFloat(orderedKey(%g)) = %g", a, back)
+		}
+	})
 }

@@ -6,6 +6,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
+	"github.com/golang/geo/r3"
 	"github.com/paulmach/orb"
 	"pgregory.net/rapid"
 )
@@ -173,15 +174,15 @@ func TestSelectNthPartitionsLinearly(t *testing.T) {
 			es[i].seg = int32(i)
 			switch order {
 			case "random":
-				es[i].centre[0] = rng.Float64()
+				es[i].key[0] = orderedKey(rng.Float64())
 			case "ascending":
-				es[i].centre[0] = float64(i)
+				es[i].key[0] = orderedKey(float64(i))
 			case "descending":
-				es[i].centre[0] = float64(-i)
+				es[i].key[0] = orderedKey(float64(-i))
 			case "organ pipe":
-				es[i].centre[0] = float64(min(i, n-i))
+				es[i].key[0] = orderedKey(float64(min(i, n-i)))
 			case "few keys":
-				es[i].centre[0] = float64(rng.IntN(3))
+				es[i].key[0] = orderedKey(float64(rng.IntN(3)))
 			}
 		}
 		k := rapid.IntRange(0, n-1).Draw(t, "k")
@@ -202,7 +203,7 @@ func TestMedian3(t *testing.T) {
 	for _, a := range keys {
 		for _, b := range keys {
 			for _, c := range keys {
-				es := []buildEntry{{centre: [3]float64{a}, seg: 0}, {centre: [3]float64{b}, seg: 1}, {centre: [3]float64{c}, seg: 2}}
+				es := []buildEntry{newBuildEntry(r3.Vector{X: a}, 0), newBuildEntry(r3.Vector{X: b}, 1), newBuildEntry(r3.Vector{X: c}, 2)}
 				got := median3(es, 0, 1, 2, 0)
 				less := 0
 				for i := range es {
@@ -229,10 +230,10 @@ func TestPivotNinther(t *testing.T) {
 		keys := rapid.SliceOfN(rapid.Float64Range(0, 1), lo+n, lo+n).Draw(t, "keys")
 		es := make([]buildEntry, lo+n)
 		for i, k := range keys {
-			es[i] = buildEntry{centre: [3]float64{0, k, 0}, seg: int32(i)}
+			es[i] = newBuildEntry(r3.Vector{Y: k}, int32(i))
 		}
 		hi := lo + n
-		key := func(i int) float64 { return es[i].centre[1] }
+		key := func(i int) float64 { return es[i].centre(1) }
 		want := documentedPivot(es, lo, hi, 1)
 		if got := pivotNinther(es, lo, hi, 1); got != want {
 			t.Fatalf("pivotNinther of %d entries from %d: index %d (key %g), want %d (key %g)", n, lo, got, key(got), want, key(want))
