@@ -93,8 +93,7 @@ func axis32(l, h float64) (c, e float32) {
 	c = float32((l + h) / 2)
 	cf := float64(c)
 	// The distances from c to the corners are rounded (l − c is not exact when l is far smaller
-	// than c), so the half-extent is found by stepping from their float32 rounding; holding is
-	// monotone in e, and the least e is a step or two away.
+	// than c); gap is what the queries measure with, so the half-extent must hold as gap says.
 	al, ah := math.Abs(l-cf), math.Abs(h-cf)
 	// Where the larger distance m is finite and not tiny, gap holds a corner exactly when e ≥ m
 	// (a shortfall m − e > 0 is then at least 2⁻⁴⁵⁴, whose square does not underflow), so the
@@ -106,23 +105,16 @@ func axis32(l, h float64) (c, e float32) {
 		}
 		return c, e
 	}
+	// Otherwise m is below 2⁻⁴⁰⁰, and e starts at its float32 rounding, 0, or a corner is
+	// infinite, and e starts at +Inf (an infinite extent holds anything). Holding is monotone in
+	// e, so stepping up from there finds the least e: one step at most from 0, where gap holds a
+	// corner a little short of it (the square of a shortfall below ~1e-162 underflows to 0).
 	holds := func(e float32) bool { return gapAt(al, float64(e)) == 0 && gapAt(ah, float64(e)) == 0 }
 	e = float32(math.Max(h-cf, cf-l))
-	for e > 0 && holds(stepDown32(e)) {
-		e = stepDown32(e)
-	}
-	for !holds(e) && !math.IsInf(float64(e), 1) { // an infinite extent holds anything
+	for e <= math.MaxFloat32 && !holds(e) {
 		e = stepUp32(e)
 	}
 	return c, e
-}
-
-// stepDown32 returns math.Nextafter32(e, 0) for e > 0, by its bits where it can.
-func stepDown32(e float32) float32 {
-	if b := math.Float32bits(e); b-1 < 0x7f800000 { // positive, finite or +Inf
-		return math.Float32frombits(b - 1)
-	}
-	return math.Nextafter32(e, 0)
 }
 
 // stepUp32 returns math.Nextafter32(e, +Inf), by its bits where it can.
