@@ -647,8 +647,11 @@ func TestManyTiedStretchesFromUser(t *testing.T) {
 		marker  orb.Point
 		wantSeg int
 	}{
-		// The user on the second drive (segment 1, the last of a leaf {0, 1}): it wins.
+		// The user on the second drive (segment 1): it wins.
 		{"user on the second drive, marker ahead", r.Segment(1).StartM + 100, orb.Point{2.002, 45.0003}, 1},
+		// The same on the fourth drive (segment 3, the last of the leaf {0, 1, 2, 3}: its subtree's
+		// largest index is the user's segment, which the second pass must still open).
+		{"user on the fourth drive, marker ahead", r.Segment(3).StartM + 100, orb.Point{2.002, 45.0003}, 3},
 		// The user in the middle of the fifth drive (segment 4, eastward like the first): a marker
 		// beside its start is behind the user on it, and the sixth drive passes it first.
 		{"user mid fifth drive, marker behind", r.Segment(4).StartM + r.Segment(4).LengthM/2, orb.Point{2.001, 45.0003}, 5},
