@@ -49,7 +49,7 @@ type node struct {
 // its leaf. The search reads the segment's arc from the route's segments: a leaf's segments are
 // near each other, and so, on a road, mostly near each other along the route, and a copy of the
 // arcs in leaf order (kept until 2026-12) cost 2.2 MB on a 20,000-vertex route and the time to
-// make it, and made the queries no faster (BenchmarkMetrics200x20000 within 1%).
+// make it, and made the queries no faster (BenchmarkMetrics200x20000 within 2%).
 type item struct {
 	seg int32
 	end bool
