@@ -90,3 +90,8 @@ func TestOffsetPointDistance(t *testing.T) {
 
 // centre returns the entry's centre along axis.
 func (e *buildEntry) centre(axis int) float64 { return orderedFloat(e.key[axis]) }
+
+// mercatorHeadingDeg is mercatorHeadingDegY with the ends' Mercator y found here.
+func mercatorHeadingDeg(a, b orb.Point) float64 {
+	return mercatorHeadingDegY(a, b, mercatorY(a[1]), mercatorY(b[1]))
+}

@@ -1,17 +1,18 @@
 package routes
 
 // The spatial index: a binary tree over the segments, split at (or next to) the median of their
-// centres along the widest axis (k-d style), so that every leaf is nearly full (splitAt). Each internal node holds, for each of its two children, an
-// axis-aligned box in 3-D space (unit-sphere units) containing every arc below that child, and the
-// largest segment index below it. Working with the unit vectors, not with longitude and latitude,
-// leaves no seam at the antimeridian and no singularity at the poles. The Euclidean distance from Q
-// to a box is a lower bound on the chord from Q to any arc in it, and the chord grows with the
-// angle, so whole regions of far segments are skipped; splitting by position rather than by index
-// keeps the boxes apart even where a route crosses itself many times (a tree over runs of
-// consecutive segments had ~60 boxes over every point of a tangled 20,000-vertex drive). "At or
-// ahead of segment u" skips children whose largest index is below u. Queries open about ten nodes
-// and leaves on a 500-vertex city drive, 22 on a 20,000-vertex one, 29 on a 20,000-vertex tangle,
-// within 15% of the nodes any search must open (index_work_test.go bounds them).
+// centres along the widest axis (k-d style), so that every leaf is nearly full (splitAt). Each
+// internal node holds, for each of its two children, an axis-aligned box in 3-D space (unit-sphere
+// units) containing every arc below that child, and the largest segment index below it. Working
+// with the unit vectors, not with longitude and latitude, leaves no seam at the antimeridian and no
+// singularity at the poles. The Euclidean distance from Q to a box is a lower bound on the chord
+// from Q to any arc in it, and the chord grows with the angle, so whole regions of far segments are
+// skipped; splitting by position rather than by index keeps the boxes apart even where a route
+// crosses itself many times (a tree over runs of consecutive segments had ~60 boxes over every
+// point of a tangled 20,000-vertex drive). "At or ahead of segment u" skips children whose largest
+// index is below u. Queries open about ten nodes and leaves on a 500-vertex city drive, 22 on a
+// 20,000-vertex one, 29 on a 20,000-vertex tangle, within 15% of the nodes any search must open
+// (index_work_test.go bounds them).
 //
 // The build (treeBuilder) is O(n log n): each split finds its place by selection, in time linear
 // in the node's segments, not by sorting them, and the boxes are made bottom-up, a parent's from

@@ -226,17 +226,12 @@ func mercatorY(latDeg float64) float64 {
 	return math.Log(math.Tan(math.Pi/4 + lat/2))
 }
 
-// mercatorHeadingDeg returns the bearing of a → b in the Web Mercator plane, atan2(Δx, Δy), in
-// degrees clockwise from north in [0, 360). Δx is taken the short way across the antimeridian
-// (longitudes exactly 180° apart go the way lon(b) − lon(a) points). Both latitudes are clamped to
-// ±85.0511287798066° as the map plane is; a segment lying entirely beyond the clamp along one
-// meridian has Δx = Δy = 0 there, and its heading is then the limit as the clamp is lifted: 0 going
-// north, 180 going south.
-func mercatorHeadingDeg(a, b orb.Point) float64 {
-	return mercatorHeadingDegY(a, b, mercatorY(a[1]), mercatorY(b[1]))
-}
-
-// mercatorHeadingDegY is mercatorHeadingDeg with the ends' mercatorY given: ya of a, yb of b.
+// mercatorHeadingDegY returns the bearing of a → b in the Web Mercator plane, atan2(Δx, Δy), in
+// degrees clockwise from north in [0, 360), given the ends' mercatorY (ya of a, yb of b: New finds
+// each vertex's once). Δx is taken the short way across the antimeridian (longitudes exactly 180°
+// apart go the way lon(b) − lon(a) points). Both latitudes are clamped to ±85.0511287798066° as the
+// map plane is; a segment lying entirely beyond the clamp along one meridian has Δx = Δy = 0 there,
+// and its heading is then the limit as the clamp is lifted: 0 going north, 180 going south.
 func mercatorHeadingDegY(a, b orb.Point, ya, yb float64) float64 {
 	dx := remainder360(b[0]-a[0]) * degRad
 	dy := yb - ya
