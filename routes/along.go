@@ -42,10 +42,10 @@ func (r *Route) pointAt(alongM float64, hint *int) orb.Point {
 	along := r.clampAlong(alongM)
 	i := segmentFrom(r.startM, along, hint)
 	if along == r.startM[i] {
-		return r.pts[i]
+		return r.preps[i].point()
 	}
 	if along >= r.startM[i+1] {
-		return r.pts[i+1]
+		return r.preps[i+1].point()
 	}
 	sg := &r.segs[i]
 	s := (along - r.startM[i]) / sg.lengthM * sg.theta

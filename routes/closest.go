@@ -160,9 +160,9 @@ func (r *Route) fillCache(pl *Place, along float64, query *orb.Point) {
 	c.ok, c.alongM, c.seg = true, along, seg
 	switch {
 	case along == r.startM[seg]:
-		c.cl, c.sl, c.v, c.onRoute, c.onPrep = 1, 0, sg.a, r.pts[seg], r.preps[seg]
+		c.cl, c.sl, c.v, c.onRoute, c.onPrep = 1, 0, sg.a, r.preps[seg].point(), r.preps[seg]
 	case along >= r.startM[seg+1]:
-		c.cl, c.sl, c.v, c.onRoute, c.onPrep = sg.cosT, sg.sinT, sg.b, r.pts[seg+1], r.preps[seg+1]
+		c.cl, c.sl, c.v, c.onRoute, c.onPrep = sg.cosT, sg.sinT, sg.b, r.preps[seg+1].point(), r.preps[seg+1]
 	default:
 		s := (along - r.startM[seg]) / sg.lengthM * sg.theta
 		c.cl, c.sl = r.segDir(seg, s)
@@ -231,7 +231,7 @@ func (r *Route) resolve(seg int, qq *query, user *placeCache) closest {
 		c.prep = prepVec(c.v, c.pt)
 		c.alongM = r.startM[seg] + c.s/sg.theta*sg.lengthM
 	case atEnd:
-		c.s, c.v, c.pt, c.prep, c.alongM = sg.theta, sg.b, r.pts[seg+1], r.preps[seg+1], r.startM[seg+1]
+		c.s, c.v, c.pt, c.prep, c.alongM = sg.theta, sg.b, r.preps[seg+1].point(), r.preps[seg+1], r.startM[seg+1]
 		if seg+1 < len(r.segs) {
 			c.normSeg = seg + 1
 		}
@@ -243,7 +243,7 @@ func (r *Route) resolve(seg int, qq *query, user *placeCache) closest {
 				c.normSeg = seg + 1
 			}
 		} else {
-			c.s, c.v, c.pt, c.prep, c.alongM = 0, sg.a, r.pts[seg], r.preps[seg], r.startM[seg]
+			c.s, c.v, c.pt, c.prep, c.alongM = 0, sg.a, r.preps[seg].point(), r.preps[seg], r.startM[seg]
 		}
 	}
 	return c
@@ -263,14 +263,14 @@ func (r *Route) snapFootToVertex(c *closest, qq *query) bool {
 	seg := c.ownSeg
 	sg := &r.segs[seg]
 	if (sg.theta-c.s)/sg.theta*sg.lengthM <= vertexSnapM {
-		c.at, c.s, c.v, c.pt, c.prep, c.alongM = atEnd, sg.theta, sg.b, r.pts[seg+1], r.preps[seg+1], r.startM[seg+1]
+		c.at, c.s, c.v, c.pt, c.prep, c.alongM = atEnd, sg.theta, sg.b, r.preps[seg+1].point(), r.preps[seg+1], r.startM[seg+1]
 		if seg+1 < len(r.segs) {
 			c.normSeg = seg + 1
 		}
 		return true
 	}
 	if c.s/sg.theta*sg.lengthM <= vertexSnapM && (seg != qq.u || (qq.cl == 1 && qq.sl == 0)) {
-		c.at, c.s, c.v, c.pt, c.prep, c.alongM = atLo, 0, sg.a, r.pts[seg], r.preps[seg], r.startM[seg]
+		c.at, c.s, c.v, c.pt, c.prep, c.alongM = atLo, 0, sg.a, r.preps[seg].point(), r.preps[seg], r.startM[seg]
 		return true
 	}
 	return false
@@ -437,7 +437,7 @@ func (r *Route) resolveScan(seg int, p s2.Point, qq *query, user *placeCache) cl
 	c := closest{ownSeg: seg, normSeg: seg, at: atFoot, v: p.Vector}
 	switch {
 	case p.Vector == sg.b:
-		c.at, c.s, c.pt, c.prep, c.alongM = atEnd, sg.theta, r.pts[seg+1], r.preps[seg+1], r.startM[seg+1]
+		c.at, c.s, c.pt, c.prep, c.alongM = atEnd, sg.theta, r.preps[seg+1].point(), r.preps[seg+1], r.startM[seg+1]
 		if seg+1 < len(r.segs) {
 			c.normSeg = seg + 1
 		}
@@ -447,7 +447,7 @@ func (r *Route) resolveScan(seg int, p s2.Point, qq *query, user *placeCache) cl
 			c.normSeg = seg + 1
 		}
 	case p.Vector == sg.a:
-		c.at, c.s, c.pt, c.prep, c.alongM = atLo, 0, r.pts[seg], r.preps[seg], r.startM[seg]
+		c.at, c.s, c.pt, c.prep, c.alongM = atLo, 0, r.preps[seg].point(), r.preps[seg], r.startM[seg]
 	default:
 		c.s = math.Min(sg.theta, s2.Point{Vector: sg.a}.Distance(p).Radians())
 		if r.snapFootToVertex(&c, qq) {

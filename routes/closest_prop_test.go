@@ -105,7 +105,7 @@ func drawNear(t *rapid.T, r *Route, label string) orb.Point {
 	case 0:
 		base = r.PointAt(rapid.Float64Range(0, 1).Draw(t, label+"_along_frac") * r.LengthM())
 	default:
-		base = r.pts[rapid.IntRange(0, len(r.pts)-1).Draw(t, label+"_vertex")]
+		base = r.preps[rapid.IntRange(0, len(r.preps)-1).Draw(t, label+"_vertex")].point()
 	}
 	if rapid.IntRange(0, 4).Draw(t, label+"_exactly_on") == 0 {
 		return base
@@ -178,8 +178,8 @@ func TestPropRouteDistBoundedByVerticesAhead(t *testing.T) {
 			}
 		}
 		check(user.Point, "the user's place")
-		for k := r.SegmentAt(user.AlongM) + 1; k < len(r.pts); k++ {
-			check(r.pts[k], "vertex ahead")
+		for k := r.SegmentAt(user.AlongM) + 1; k < len(r.preps); k++ {
+			check(r.preps[k].point(), "vertex ahead")
 		}
 	})
 }

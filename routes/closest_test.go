@@ -587,7 +587,7 @@ func TestUserQueryMovedAlone(t *testing.T) {
 func TestVertexRuleAtTheUsersVertex(t *testing.T) {
 	r := mustRoute(t, []orb.Point{{0, 0}, {0.01, 0}, {0.02, 0}})
 	for _, v := range []int{0, 1} {
-		vertex := r.pts[v]
+		vertex := r.preps[v].point()
 		// 0.5e-6 m along the route after the vertex, 10 m to the north.
 		q := orb.Point{vertex[0] + 0.5e-6*degPerM, 10 * degPerM}
 		user := r.PlaceAt(r.Segment(v).StartM)

@@ -48,6 +48,9 @@ type ellPoint struct {
 	sinU, cosU     float64
 }
 
+// point returns the position as it was given, [lon, lat] degrees.
+func (p *ellPoint) point() orb.Point { return orb.Point{p.lonDeg, p.latDeg} }
+
 // prepLatLon prepares a position given in degrees.
 func prepLatLon(latDeg, lonDeg float64) ellPoint {
 	if math.Abs(latDeg) == 90 {

@@ -295,7 +295,9 @@ func TestArcBoxHoldsItsEnds(t *testing.T) {
 // whatever the route's length (each slice once, at its final size), from 2
 // vertices to 2,000: an index whose node slice were made too small would
 // grow it by appending; and one made larger than the tree (one node fewer
-// than its leaves, at least one) would hold memory it never uses.
+// than its leaves, at least one) would hold memory it never uses. The
+// build's entries come from a pool (entryPool), filled by the count's
+// first run, so they are not counted.
 func TestNewAllocatesAFixedNumber(t *testing.T) {
 	// A first collection here, not during the count: the runtime starts
 	// the collector's workers at its first cycle, and their goroutines are

@@ -152,7 +152,7 @@ func TestBuildTreeMatchesSortTangled(t *testing.T) {
 		t.Run(c.desc, func(t *testing.T) {
 			r := mustRoute(t, c.pts)
 			checkSameTree(t, r.segs, c.desc)
-			old := &Route{pts: r.pts, preps: r.preps, segs: r.segs, startM: r.startM, startS: r.startS}
+			old := &Route{preps: r.preps, segs: r.segs, startM: r.startM, startS: r.startS}
 			old.tree, old.root, old.items = buildTreeSort(r.segs)
 			rng := rand.New(rand.NewPCG(9, 1))
 			user := r.Snap(offsetPoint(r.PointAt(r.LengthM()/10), 90, 4))

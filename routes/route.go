@@ -42,8 +42,9 @@ type arc struct {
 // consecutive pair, the speed on each, and a spatial index over the segments. A Route is immutable
 // and safe for concurrent use.
 type Route struct {
-	pts    []orb.Point // distinct vertices, [lon, lat] degrees; len(segs)+1 of them
-	preps  []ellPoint  // the vertices prepared for the geodesic from their degrees (as queries are)
+	// preps are the distinct vertices, len(segs)+1 of them, as given in degrees (point) and
+	// prepared for the geodesic from those degrees (as queries are).
+	preps  []ellPoint
 	segs   []segment
 	startM []float64 // along-route position of each vertex, metres; startM[len(segs)] = LengthM()
 	startS []float64 // travel time from the start to each vertex, seconds
@@ -119,12 +120,11 @@ func New(points []orb.Point, speedsMps []float64) (*Route, error) {
 			return nil, err
 		}
 	}
-	r := &Route{segs: make([]segment, 0, len(points)-1), pts: make([]orb.Point, 0, len(points)), preps: make([]ellPoint, 0, len(points))}
+	r := &Route{segs: make([]segment, 0, len(points)-1), preps: make([]ellPoint, 0, len(points))}
 	prevIdx := 0
 	prevVec, sLat, cLat := unitVec(points[0])
 	prevPrep := prepUnit(points[0], sLat, cLat)
 	prevY := mercatorY(points[0][1]) // each vertex's Mercator y is found once
-	r.pts = append(r.pts, points[0])
 	r.preps = append(r.preps, prevPrep)
 	for j := 1; j < len(points); j++ {
 		v, sLat, cLat := unitVec(points[j])
@@ -155,7 +155,6 @@ func New(points []orb.Point, speedsMps []float64) (*Route, error) {
 		}
 		sg.headingDeg = mercatorHeadingDegY(points[prevIdx], points[j], prevY, y)
 		r.segs = append(r.segs, sg)
-		r.pts = append(r.pts, points[j])
 		r.preps = append(r.preps, pp)
 		prevIdx, prevVec, prevPrep, prevY = j, v, pp, y
 	}
@@ -254,7 +253,13 @@ func (r *Route) DurationS() float64 { return r.startS[len(r.segs)] }
 func (r *Route) NumSegments() int { return len(r.segs) }
 
 // Points returns a copy of the route's distinct vertices ([lon, lat] degrees), duplicates dropped.
-func (r *Route) Points() []orb.Point { return append([]orb.Point(nil), r.pts...) }
+func (r *Route) Points() []orb.Point {
+	pts := make([]orb.Point, len(r.preps))
+	for i := range r.preps {
+		pts[i] = r.preps[i].point()
+	}
+	return pts
+}
 
 // SegmentInfo describes one segment of a route.
 type SegmentInfo struct {
@@ -270,6 +275,6 @@ type SegmentInfo struct {
 func (r *Route) Segment(i int) SegmentInfo {
 	i = max(0, min(i, len(r.segs)-1))
 	sg := &r.segs[i]
-	return SegmentInfo{From: r.pts[i], To: r.pts[i+1], StartM: r.startM[i], LengthM: sg.lengthM,
+	return SegmentInfo{From: r.preps[i].point(), To: r.preps[i+1].point(), StartM: r.startM[i], LengthM: sg.lengthM,
 		StartS: r.startS[i], SpeedMps: sg.speedMps, HeadingDeg: sg.headingDeg}
 }

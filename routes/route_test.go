@@ -111,6 +111,51 @@ func TestValidateLatLon(t *testing.T) {
 	}
 }
 
+// TestPointsAreTheGivenVertices: the vertices a route gives back (Points,
+// Segment) are ones given, to the bit (−0, ±180° and the poles included),
+// in the order given, one for each segment end. The
+// route keeps them only in their geodesic preparation, so this holds the
+// preparation to the degrees it was given.
+func TestPointsAreTheGivenVertices(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		coord := func(lim float64, label string) float64 {
+			return rapid.OneOf(rapid.Float64Range(-lim, lim), rapid.SampledFrom([]float64{-lim, lim, 0, math.Copysign(0, -1)})).Draw(t, label)
+		}
+		pts := make([]orb.Point, rapid.IntRange(2, 12).Draw(t, "vertices"))
+		for i := range pts {
+			if i > 0 && rapid.IntRange(0, 4).Draw(t, "repeat") == 0 {
+				pts[i] = pts[i-1]
+				continue
+			}
+			pts[i] = orb.Point{coord(180, "lon"), coord(90, "lat")}
+		}
+		r, err := New(pts, []float64{10})
+		if err != nil {
+			t.Skip(err) // antipodal or a single distinct vertex
+		}
+		bits := func(p orb.Point) [2]uint64 { return [2]uint64{math.Float64bits(p[0]), math.Float64bits(p[1])} }
+		got, j := r.Points(), 0
+		for k, p := range got {
+			for j < len(pts) && bits(pts[j]) != bits(p) {
+				j++
+			}
+			if j == len(pts) {
+				t.Fatalf("Points()[%d] = %v is not one of the vertices given after the one before: %v", k, p, pts)
+			}
+			if k < r.NumSegments() && bits(r.Segment(k).From) != bits(p) {
+				t.Fatalf("Segment(%d).From = %v, Points()[%d] = %v", k, r.Segment(k).From, k, p)
+			}
+			if k > 0 && bits(r.Segment(k-1).To) != bits(p) {
+				t.Fatalf("Segment(%d).To = %v, Points()[%d] = %v", k-1, r.Segment(k-1).To, k, p)
+			}
+			j++
+		}
+		if len(got) != r.NumSegments()+1 {
+			t.Fatalf("%d points for %d segments", len(got), r.NumSegments())
+		}
+	})
+}
+
 func TestNewDropsZeroLengthSegments(t *testing.T) {
 	a, b, c := orb.Point{10, 50}, orb.Point{10.01, 50}, orb.Point{10.01, 50.01}
 	// The speeds of the zero-length segments (entries 0 and 2) are ignored, even when unusable.
