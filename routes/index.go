@@ -132,7 +132,7 @@ func stepUp32(e float32) float32 {
 func buildTree(segs []segment) ([]node, int32, []item) {
 	b := newTreeBuilder(segs)
 	root := b.build(0, len(segs)).code // before reading b.nodes, which it appends to
-	entryPool.Put(&b.es)
+	entryPool.Put(b.esBuf)
 	return b.nodes, root, b.items
 }
 
@@ -143,9 +143,11 @@ var entryPool sync.Pool
 
 // newTreeBuilder returns a builder for the tree over segs, with each segment's box and centre made.
 func newTreeBuilder(segs []segment) *treeBuilder {
+	es := pooledEntries(len(segs))
 	b := &treeBuilder{
-		segs: segs,
-		es:   pooledEntries(len(segs)),
+		segs:  segs,
+		es:    *es,
+		esBuf: es,
 		// One node fewer than the ⌈n/leafSegs⌉ leaves (splitAt); at least one, so that every route
 		// allocates alike.
 		nodes: make([]node, 0, max(1, (len(segs)-1)/leafSegs)),
@@ -158,13 +160,19 @@ func newTreeBuilder(segs []segment) *treeBuilder {
 	return b
 }
 
-// pooledEntries returns n entries, from entryPool when it holds enough; their contents are
-// whatever the last build left (newTreeBuilder writes every one).
-func pooledEntries(n int) []buildEntry {
-	if p, _ := entryPool.Get().(*[]buildEntry); p != nil && cap(*p) >= n {
-		return (*p)[:n]
+// pooledEntries returns a slice of n entries, from entryPool when it holds one; their contents
+// are whatever the last build left (newTreeBuilder writes every one). The pool holds the slice
+// alone, so that it keeps no route alive.
+func pooledEntries(n int) *[]buildEntry {
+	p, _ := entryPool.Get().(*[]buildEntry)
+	if p == nil {
+		p = new([]buildEntry)
 	}
-	return make([]buildEntry, n)
+	if cap(*p) < n {
+		*p = make([]buildEntry, n)
+	}
+	*p = (*p)[:n]
+	return p
 }
 
 // treeBuilder builds the index top-down, splitting each range of entries at (or next to) the
@@ -187,7 +195,8 @@ func pooledEntries(n int) []buildEntry {
 // boxes under it, exact in any order of combination.
 type treeBuilder struct {
 	segs  []segment
-	es    []buildEntry // the segments, reordered in place into leaf order
+	es    []buildEntry  // the segments, reordered in place into leaf order
+	esBuf *[]buildEntry // es's slice from entryPool, to give back
 	nodes []node
 	items []item
 	// work counts the entries the splits' selections partitioned (selectNth): the build's work,

@@ -324,6 +324,22 @@ func TestNewAllocatesAFixedNumber(t *testing.T) {
 	}
 }
 
+// TestBuildTreeReusesEntries: once a build has given its entries back to
+// entryPool, the next build of as many segments takes them from it and
+// allocates only the builder and the tree it returns (its nodes and leaf
+// items): 3 allocations, where making the entries anew would be 4 (or 5
+// with the pool's slice header). AllocsPerRun's first, uncounted run fills
+// the pool (it sets GOMAXPROCS, which empties a sync.Pool).
+func TestBuildTreeReusesEntries(t *testing.T) {
+	rng := rand.New(rand.NewPCG(4, 4))
+	for _, n := range []int{2, 100, 2000, 3000} {
+		r := mustRoute(t, cityRoute(rng, orb.Point{13.405, 52.52}, n, 50))
+		if got := testing.AllocsPerRun(10, func() { buildTree(r.segs) }); got != 3 {
+			t.Errorf("buildTree of %d segments: %g allocations, want 3 (builder, nodes, items)", len(r.segs), got)
+		}
+	}
+}
+
 // closestOracle is the closest point of the considered part of arc sg to
 // q, worked out another way: the foot is q projected on the arc's plane
 // and normalised, its angle from a by atan2; it counts when its angle lies
