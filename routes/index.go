@@ -130,9 +130,10 @@ func stepUp32(e float32) float32 {
 // buildTree builds the index over segs: the internal nodes, the root's code (see node), and the
 // items in leaf order. See treeBuilder for how, in O(n log n).
 func buildTree(segs []segment) ([]node, int32, []item) {
-	b := newTreeBuilder(segs)
+	es := pooledEntries(len(segs))
+	b := newTreeBuilder(segs, *es)
 	root := b.build(0, len(segs)).code // before reading b.nodes, which it appends to
-	entryPool.Put(b.esBuf)
+	entryPool.Put(es)
 	return b.nodes, root, b.items
 }
 
@@ -141,13 +142,12 @@ func buildTree(segs []segment) ([]node, int32, []item) {
 // the entries are 640 KB, each page of it faulted in and zeroed anew).
 var entryPool sync.Pool
 
-// newTreeBuilder returns a builder for the tree over segs, with each segment's box and centre made.
-func newTreeBuilder(segs []segment) *treeBuilder {
-	es := pooledEntries(len(segs))
+// newTreeBuilder returns a builder for the tree over segs, with each segment's box and centre made
+// into es (len(segs) entries, whatever they held).
+func newTreeBuilder(segs []segment, es []buildEntry) *treeBuilder {
 	b := &treeBuilder{
-		segs:  segs,
-		es:    *es,
-		esBuf: es,
+		segs: segs,
+		es:   es,
 		// One node fewer than the ⌈n/leafSegs⌉ leaves (splitAt); at least one, so that every route
 		// allocates alike.
 		nodes: make([]node, 0, max(1, (len(segs)-1)/leafSegs)),
@@ -195,8 +195,7 @@ func pooledEntries(n int) *[]buildEntry {
 // boxes under it, exact in any order of combination.
 type treeBuilder struct {
 	segs  []segment
-	es    []buildEntry  // the segments, reordered in place into leaf order
-	esBuf *[]buildEntry // es's slice from entryPool, to give back
+	es    []buildEntry // the segments, reordered in place into leaf order
 	nodes []node
 	items []item
 	// work counts the entries the splits' selections partitioned (selectNth): the build's work,

@@ -140,7 +140,7 @@ func TestBuildPartitionsLinearly(t *testing.T) {
 	}
 	for _, kind := range bigRouteKinds {
 		r := mustRoute(t, bigRoute(rand.New(rand.NewPCG(5, 2)), kind, n))
-		b := newTreeBuilder(r.segs)
+		b := newTreeBuilder(r.segs, make([]buildEntry, len(r.segs)))
 		b.build(0, len(r.segs))
 		m := len(r.segs)
 		levels := math.Ceil(math.Log2(float64(m) / leafSegs))
