@@ -68,18 +68,20 @@ func TestArcBoxTight(t *testing.T) {
 // (1e-14) covers the difference with room to spare. The angles near π are
 // where √((1 + cos θ)/2) alone is 2e-11 short (it was tried so).
 func TestArcBulgeIsHalfAngle(t *testing.T) {
-	check := func(theta float64) {
-		t.Helper()
+	// check reports through tb: the test's own, or rapid's, so that a
+	// failing angle is shrunk.
+	check := func(tb rapid.TB, theta float64) {
+		tb.Helper()
 		s, c := math.Sincos(theta)
 		got, want := arcBulge(c, s), 1-math.Cos(theta/2)
 		if d := math.Abs(got - want); !(d <= 1e-15) {
-			t.Fatalf("θ = %.17g: arcBulge %.17g, 1 − cos(θ/2) = %.17g, %.3g apart", theta, got, want, d)
+			tb.Fatalf("θ = %.17g: arcBulge %.17g, 1 − cos(θ/2) = %.17g, %.3g apart", theta, got, want, d)
 		}
 	}
 	for _, theta := range []float64{5e-324, 1e-12, 1e-8, 1e-4, 0.1, 1, math.Pi / 2, math.Nextafter(math.Pi/2, 4), 3, maxArcRad} {
-		check(theta)
+		check(t, theta)
 	}
 	rapid.Check(t, func(rt *rapid.T) {
-		check(rapid.Float64Range(0, maxArcRad).Draw(rt, "theta"))
+		check(rt, rapid.Float64Range(0, maxArcRad).Draw(rt, "theta"))
 	})
 }
